@@ -6,12 +6,16 @@ import compression from "compression";
 import express from "express";
 import { createRequestHandler } from "@react-router/express";
 
-const build = await import("./build/server/index.js");
+import path from "node:path";
+import { pathToFileURL } from "node:url";
+
+const buildDir = path.resolve(process.env.BUILD_DIR ?? "build");
+const build = await import(pathToFileURL(path.join(buildDir, "server/index.js")).href);
 const app = express();
 app.disable("x-powered-by");
 app.use(compression());
-app.use("/assets", express.static("build/client/assets", { immutable: true, maxAge: "1y" }));
-app.use(express.static("build/client", { maxAge: "1h" }));
+app.use("/assets", express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y" }));
+app.use(express.static(path.join(buildDir, "client"), { maxAge: "1h" }));
 app.use((req, _res, next) => {
   const forwarded = process.env.TRUST_PROXY === "1" ? String(req.headers["x-forwarded-for"] ?? "").split(",")[0].trim() : "";
   req.headers["x-thermotally-client"] = forwarded || req.socket.remoteAddress || "unknown";
