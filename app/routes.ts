@@ -21,10 +21,12 @@ export default [
     route("settings/tokens", "routes/settings-tokens.tsx"),
     route("admin/outbox", "routes/admin-outbox.tsx"),
     route("admin/users", "routes/admin-users.tsx"),
+    route("tools/thermo", "routes/tools-thermo.tsx"),
   ]),
 
   ...prefix("api/v1", [
     route("session", "routes/api/session.ts"),
+    route("thermo", "routes/api/thermo.ts"),
     route("projects", "routes/api/projects.ts"),
     route("projects/:projectId", "routes/api/project.ts"),
     route("*", "routes/api/not-found.ts"),

@@ -124,6 +124,8 @@ export function url(pathname: string): string {
 export async function open(page: Page, pathname: string): Promise<Response> {
   const response = await page.goto(url(pathname), { waitUntil: "load" });
   if (!response) throw new Error(`no response for ${pathname}`);
+  // Pages that render (not error pages from the server) hydrate; wait until React has taken over.
+  if (response.ok()) await page.waitForSelector("html[data-hydrated]", { state: "attached", timeout: 15_000 });
   return response;
 }
 
@@ -142,6 +144,8 @@ export async function signIn(page: Page, email: string, password: string = DEMO_
       }),
       page.locator('button[type="submit"]').first().click(),
     ]);
+    // The URL changes before the new page has rendered: wait for the signed-in frame.
+    await page.waitForSelector('nav[aria-label="Main"]', { timeout: 15_000 });
   } catch (err) {
     const alert = await page
       .locator('[role="alert"]')
