@@ -1,96 +1,85 @@
 import { DataTypes, type QueryInterface } from "sequelize";
+import { id, stamps, ref, tableOptions } from "./columns";
 
-const id = { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true, allowNull: false };
-const stamps = {
-  created_at: { type: DataTypes.DATE, allowNull: false },
-  updated_at: { type: DataTypes.DATE, allowNull: false },
-};
-const ref = (table: string, onDelete: "CASCADE" | "SET NULL" = "CASCADE", allowNull = false) => ({
-  type: DataTypes.INTEGER.UNSIGNED,
-  allowNull,
-  references: { model: table, key: "id" },
-  onDelete,
-});
-const options = { charset: "utf8mb4", collate: "utf8mb4_unicode_ci" };
 
 export async function up({ context: qi }: { context: QueryInterface }) {
   await qi.createTable(
     "users",
     {
-      id,
+      id: id(),
       email: { type: DataTypes.STRING(254), allowNull: false, unique: true },
       name: { type: DataTypes.STRING(120), allowNull: false },
       password_hash: { type: DataTypes.STRING(100), allowNull: false },
       site_admin: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       session_version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
-      ...stamps,
+      ...stamps(),
     },
-    options,
+    tableOptions,
   );
   await qi.createTable(
     "projects",
     {
-      id,
+      id: id(),
       name: { type: DataTypes.STRING(160), allowNull: false },
       description: { type: DataTypes.TEXT, allowNull: false },
       created_by: ref("users", "SET NULL", true),
       default_protocol_id: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
-      ...stamps,
+      ...stamps(),
     },
-    options,
+    tableOptions,
   );
   await qi.createTable(
     "memberships",
     {
-      id,
+      id: id(),
       project_id: ref("projects"),
       user_id: ref("users"),
       role: { type: DataTypes.ENUM("owner", "editor", "auditor", "viewer"), allowNull: false },
-      ...stamps,
+      ...stamps(),
     },
-    options,
+    tableOptions,
   );
   await qi.addIndex("memberships", ["project_id", "user_id"], { unique: true, name: "memberships_project_user" });
   await qi.createTable(
     "api_tokens",
     {
-      id,
+      id: id(),
       user_id: ref("users"),
       name: { type: DataTypes.STRING(120), allowNull: false },
       token_hash: { type: DataTypes.CHAR(64), allowNull: false, unique: true },
       prefix: { type: DataTypes.STRING(16), allowNull: false },
       last_used_at: { type: DataTypes.DATE, allowNull: true },
       revoked_at: { type: DataTypes.DATE, allowNull: true },
-      ...stamps,
+      ...stamps(),
     },
-    options,
+    tableOptions,
   );
   await qi.createTable(
     "password_resets",
     {
-      id,
+      id: id(),
       user_id: ref("users"),
       token_hash: { type: DataTypes.CHAR(64), allowNull: false, unique: true },
       expires_at: { type: DataTypes.DATE, allowNull: false },
       used_at: { type: DataTypes.DATE, allowNull: true },
-      ...stamps,
+      ...stamps(),
     },
-    options,
+    tableOptions,
   );
   await qi.createTable(
     "email_outbox",
     {
-      id,
+      id: id(),
       to_address: { type: DataTypes.STRING(254), allowNull: false },
       subject: { type: DataTypes.STRING(300), allowNull: false },
       text_body: { type: DataTypes.TEXT, allowNull: false },
       status: { type: DataTypes.ENUM("sent", "failed"), allowNull: false },
       error: { type: DataTypes.TEXT, allowNull: true },
       message_id: { type: DataTypes.STRING(300), allowNull: true },
-      ...stamps,
+      ...stamps(),
     },
-    options,
+    tableOptions,
   );
   await qi.createTable(
     "history",
@@ -107,7 +96,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
       new_values: { type: DataTypes.JSON, allowNull: true },
       created_at: { type: DataTypes.DATE, allowNull: false },
     },
-    options,
+    tableOptions,
   );
   await qi.addIndex("history", ["project_id", "created_at"], { name: "history_project_time" });
   await qi.addIndex("history", ["object_type", "object_id"], { name: "history_object" });

@@ -1,5 +1,7 @@
 import { closeDb } from "../db";
 import { DEMO_ACCOUNTS, DEMO_PASSWORD, seedFoundation } from "./seed/foundation";
+import { seedLedgerData } from "./seed/ledger-data";
+import { seedLedgerReactions } from "./seed/ledger-reactions";
 
 /**
  * The demo: an invented mechanism study and one account per role. Idempotent: a second run finds what
@@ -7,7 +9,7 @@ import { DEMO_ACCOUNTS, DEMO_PASSWORD, seedFoundation } from "./seed/foundation"
  */
 async function main() {
   const context = await seedFoundation();
-  const steps: ((c: typeof context) => Promise<void>)[] = [];
+  const steps: ((c: typeof context) => Promise<void>)[] = [seedLedgerData, seedLedgerReactions];
   for (const step of steps) await step(context);
   if (!process.argv.includes("--quiet")) {
     console.log(`demo project: “${context.project.name}” (id ${context.project.id})`);

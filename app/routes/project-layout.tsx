@@ -1,6 +1,8 @@
 import { NavLink, Outlet } from "react-router";
 import type { Route } from "./+types/project-layout";
 import { PROJECT_TABS } from "~/components/project-nav";
+import { SignOffBanner } from "~/components/sign-off";
+import { signOffStatus } from "~/services/snapshots.server";
 import { describeProject } from "~/services/projects.server";
 import { requireProject } from "~/utils/guards.server";
 import { parseParams, positiveIntId } from "~/utils/http.server";
@@ -16,6 +18,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return {
     project: describeProject(project, role),
     can: Object.fromEntries(actions.map((a) => [a, may(actor, a)])) as Record<ProjectAction, boolean>,
+    signOff: await signOffStatus(project.id),
   };
 }
 
@@ -37,6 +40,7 @@ export default function ProjectLayout({ loaderData }: Route.ComponentProps) {
             </span>
             {!can.edit ? <span className="text-xs text-muted">read only</span> : null}
           </div>
+          <SignOffBanner projectId={project.id} status={loaderData.signOff} />
           <nav className="-mb-px mt-2 flex flex-wrap gap-1" aria-label="Project">
             {PROJECT_TABS.filter((t) => !t.needs || can[t.needs]).map((t) => (
               <NavLink

@@ -2,8 +2,10 @@ import { data, Form, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/project-members";
 import { Field, FormError, SelectField } from "~/components/forms";
+import { TeamSections } from "~/components/team-sections";
 import { useProject } from "~/components/use-project";
 import { addMember, changeMemberRole, listMembers, removeMember } from "~/services/projects.server";
+import { membersTeamAction, membersTeamData } from "~/services/team-forms.server";
 import { principalOf, requireProject } from "~/utils/guards.server";
 import { parseForm, parseParams, positiveIntId, ServiceError, serviceErrorToFields } from "~/utils/http.server";
 import { PROJECT_ROLES, ROLE_DESCRIPTIONS } from "~/utils/permissions";
@@ -19,13 +21,15 @@ const actionSchema = z.discriminatedUnion("intent", [
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { projectId } = parseParams(params, paramsSchema);
-  const { project } = await requireProject(request, projectId, "read");
-  return { members: await listMembers(project.id) };
+  const { project, actor } = await requireProject(request, projectId, "read");
+  return { members: await listMembers(project.id), team: await membersTeamData(project.id, actor) };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { projectId } = parseParams(params, paramsSchema);
   const { project, user } = await requireProject(request, projectId, "manage");
+  const team = await membersTeamAction(request, project, user, principalOf(user));
+  if (team) return team;
   const parsed = parseForm(await request.formData(), actionSchema);
   if (!parsed.ok) return data({ errors: parsed.errors }, { status: 422 });
   const form = parsed.data;
@@ -101,6 +105,7 @@ export default function Members({ loaderData, actionData }: Route.ComponentProps
         </table>
       </section>
       <aside className="space-y-4">
+        {can.manage ? <TeamSections team={loaderData.team} /> : null}
         {can.manage ? (
           <Form method="post" className="card space-y-3" noValidate>
             <h2 className="font-bold">Add a member</h2>

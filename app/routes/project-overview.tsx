@@ -1,6 +1,8 @@
 import type { Route } from "./+types/project-overview";
+import { ChangesSinceSignOffList } from "~/components/sign-off";
 import { useProject } from "~/components/use-project";
 import { projectOverview } from "~/services/overview.server";
+import { changesSinceSignOff } from "~/services/snapshots.server";
 import { requireProject } from "~/utils/guards.server";
 import { parseParams, positiveIntId } from "~/utils/http.server";
 import { z } from "zod";
@@ -10,7 +12,7 @@ const paramsSchema = z.object({ projectId: positiveIntId });
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { projectId } = parseParams(params, paramsSchema);
   const { project } = await requireProject(request, projectId, "read");
-  return projectOverview(project);
+  return { ...(await projectOverview(project)), changes: await changesSinceSignOff(project.id) };
 }
 
 export default function ProjectOverview({ loaderData }: Route.ComponentProps) {
@@ -30,6 +32,12 @@ export default function ProjectOverview({ loaderData }: Route.ComponentProps) {
             </div>
           ))}
         </dl>
+        {loaderData.changes?.outdated ? (
+          <div className="mt-4">
+            <h3 className="mb-1 text-sm font-bold">Changed since the last sign-off</h3>
+            <ChangesSinceSignOffList changes={loaderData.changes} />
+          </div>
+        ) : null}
       </section>
       <section className="card">
         <h2 className="mb-2 font-bold">Members</h2>

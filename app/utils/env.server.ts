@@ -31,7 +31,8 @@ const schema = z.object({
   SMTP_SECURE: booleanFromText.default(false),
   MAIL_FROM: z.string().default("Thermotally <no-reply@thermotally.test>"),
   MAILBOX_DIR: z.string().optional(),
-  S3_ENDPOINT: z.string().url().optional(),
+  // The local fake unless told otherwise: the app never reaches another host by default.
+  S3_ENDPOINT: z.string().url().default("http://127.0.0.1:4569"),
   S3_BUCKET: z.string().default("thermotally"),
   S3_ACCESS_KEY_ID: z.string().default("S3RVER"),
   S3_SECRET_ACCESS_KEY: z.string().default("S3RVER"),

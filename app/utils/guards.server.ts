@@ -1,6 +1,7 @@
 import { redirect } from "react-router";
 import { db } from "../../db";
 import type { Project, User } from "../../db/models/foundation";
+import { resolveShareLink } from "../services/share-links.server";
 import { userForApiToken } from "../services/tokens.server";
 import { findUserById } from "../services/users.server";
 import { forbidden, notFound, unauthorized } from "./http.server";
@@ -87,3 +88,16 @@ const actionWords: Record<ProjectAction, string> = {
 };
 
 export const principalOf = (user: User) => ({ userId: user.id, label: `${user.name} <${user.email}>` });
+
+/**
+ * A share link's view of its project: only what `may({kind: "share"}, action)` allows (read, export).
+ * An unknown, revoked or expired token is "not found", so a link stops working at once.
+ */
+export async function requireShare(request: Request, token: string, action: ProjectAction) {
+  if (request.method !== "GET" && request.method !== "HEAD") throw forbidden("A share link only reads and exports");
+  const share = await resolveShareLink(token);
+  if (!share) throw notFound("This share link is not valid: it may have been revoked or have expired");
+  const actor: ProjectActor = { kind: "share" };
+  if (!may(actor, action)) throw forbidden("A share link only reads and exports");
+  return { ...share, actor };
+}

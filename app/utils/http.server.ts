@@ -135,3 +135,16 @@ export function apiErrorFrom(error: unknown): Response {
 }
 
 export const positiveIntId = z.coerce.number().int().positive();
+
+/** A download: the body with its type and a file name the browser saves it under (UTF-8 safe). */
+export function attachment(body: BodyInit, fileName: string, contentType: string, headers: Record<string, string> = {}): Response {
+  const ascii = fileName.replace(/[^\x20-\x7e]|["\\]/g, "_");
+  return new Response(body, {
+    headers: {
+      "Content-Type": contentType,
+      "Content-Disposition": `attachment; filename="${ascii}"; filename*=UTF-8''${encodeURIComponent(fileName)}`,
+      "Cache-Control": "no-store",
+      ...headers,
+    },
+  });
+}

@@ -7,6 +7,7 @@ import {
   type InferCreationAttributes,
   type Sequelize,
 } from "sequelize";
+import { id, stamps } from "./columns";
 import type { ProjectRole } from "../../app/utils/permissions";
 
 export class User extends Model<InferAttributes<User>, InferCreationAttributes<User>> {
@@ -91,78 +92,76 @@ export class HistoryEntry extends Model<InferAttributes<HistoryEntry>, InferCrea
   declare createdAt: CreationOptional<Date>;
 }
 
-const id = { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true } as const;
-const timestamps = { createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE } as const;
 
 export function initFoundationModels(sequelize: Sequelize) {
   User.init(
     {
-      id,
+      id: id(),
       email: { type: DataTypes.STRING(254), allowNull: false, unique: true },
       name: { type: DataTypes.STRING(120), allowNull: false },
       passwordHash: { type: DataTypes.STRING(100), allowNull: false },
       siteAdmin: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       sessionVersion: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
-      ...timestamps,
+      ...stamps(),
     },
     { sequelize, tableName: "users" },
   );
   Project.init(
     {
-      id,
+      id: id(),
       name: { type: DataTypes.STRING(160), allowNull: false },
       description: { type: DataTypes.TEXT, allowNull: false, defaultValue: "" },
       createdBy: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       defaultProtocolId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       version: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
-      ...timestamps,
+      ...stamps(),
     },
     { sequelize, tableName: "projects" },
   );
   Membership.init(
     {
-      id,
+      id: id(),
       projectId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
       userId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
       role: { type: DataTypes.ENUM("owner", "editor", "auditor", "viewer"), allowNull: false },
-      ...timestamps,
+      ...stamps(),
     },
     { sequelize, tableName: "memberships" },
   );
   ApiToken.init(
     {
-      id,
+      id: id(),
       userId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
       name: { type: DataTypes.STRING(120), allowNull: false },
       tokenHash: { type: DataTypes.CHAR(64), allowNull: false, unique: true },
       prefix: { type: DataTypes.STRING(16), allowNull: false },
       lastUsedAt: { type: DataTypes.DATE, allowNull: true },
       revokedAt: { type: DataTypes.DATE, allowNull: true },
-      ...timestamps,
+      ...stamps(),
     },
     { sequelize, tableName: "api_tokens" },
   );
   PasswordReset.init(
     {
-      id,
+      id: id(),
       userId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
       tokenHash: { type: DataTypes.CHAR(64), allowNull: false, unique: true },
       expiresAt: { type: DataTypes.DATE, allowNull: false },
       usedAt: { type: DataTypes.DATE, allowNull: true },
-      ...timestamps,
+      ...stamps(),
     },
     { sequelize, tableName: "password_resets" },
   );
   EmailMessage.init(
     {
-      id,
+      id: id(),
       toAddress: { type: DataTypes.STRING(254), allowNull: false },
       subject: { type: DataTypes.STRING(300), allowNull: false },
       textBody: { type: DataTypes.TEXT, allowNull: false },
       status: { type: DataTypes.ENUM("sent", "failed"), allowNull: false },
       error: { type: DataTypes.TEXT, allowNull: true },
       messageId: { type: DataTypes.STRING(300), allowNull: true },
-      ...timestamps,
+      ...stamps(),
     },
     { sequelize, tableName: "email_outbox" },
   );

@@ -1,5 +1,8 @@
 import type { Sequelize } from "sequelize";
 import { initFoundationModels } from "./foundation";
+import { initLedgerModels } from "./ledger";
+import { initFileModels } from "./files";
+import { initTeamModels } from "./team";
 
 /**
  * Every model of the app, initialised on one Sequelize instance. Later parts of the app add their own
@@ -7,7 +10,10 @@ import { initFoundationModels } from "./foundation";
  */
 export function initModels(sequelize: Sequelize) {
   const foundation = initFoundationModels(sequelize);
-  return { ...foundation };
+  const ledger = initLedgerModels(sequelize);
+  const files = initFileModels(sequelize);
+  const team = initTeamModels(sequelize);
+  return { ...foundation, ...ledger, ...files, ...team };
 }
 
 export type Models = ReturnType<typeof initModels>;

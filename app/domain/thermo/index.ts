@@ -46,3 +46,5 @@ export {
 export { energeticSpan } from "./energetic-span";
 export type { SpanState, EnergeticSpanInput, EnergeticSpanResult } from "./energetic-span";
 export { parseFrequencyList } from "./frequency-list";
+export { electronicEnergyPlausibility, atomEnergyEstimateHartree } from "./plausibility";
+export type { EnergyPlausibility } from "./plausibility";

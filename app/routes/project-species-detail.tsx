@@ -1,0 +1,191 @@
+import { data, Form, Link, useNavigation } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/project-species-detail";
+import { Field, FormError } from "~/components/forms";
+import { formatCharge, formatKind, formatMultiplicity } from "~/components/grids/format";
+import { useProject } from "~/components/use-project";
+import { listCalculations } from "~/services/calculations.server";
+import { createConformer, deleteConformer, getSpecies } from "~/services/species.server";
+import { principalOf, requireProject } from "~/utils/guards.server";
+import { parseForm, parseParams, positiveIntId, ServiceError, serviceErrorToFields } from "~/utils/http.server";
+
+const paramsSchema = z.object({ projectId: positiveIntId, speciesId: positiveIntId });
+const actionSchema = z.discriminatedUnion("intent", [
+  z.object({ intent: z.literal("add-conformer"), label: z.string(), geometry: z.string().optional() }),
+  z.object({ intent: z.literal("delete-conformer"), conformerId: positiveIntId }),
+]);
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { projectId, speciesId } = parseParams(params, paramsSchema);
+  const { project } = await requireProject(request, projectId, "read");
+  const species = await getSpecies(project.id, speciesId).catch((error) => {
+    if (error instanceof ServiceError) throw data({ error: { message: "No such species in this project" } }, { status: 404 });
+    throw error;
+  });
+  return { species, calculations: await listCalculations(project.id, { species: String(species.id) }) };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const { projectId, speciesId } = parseParams(params, paramsSchema);
+  const { project, user } = await requireProject(request, projectId, "edit");
+  const parsed = parseForm(await request.formData(), actionSchema);
+  if (!parsed.ok) return data({ errors: parsed.errors }, { status: 422 });
+  try {
+    if (parsed.data.intent === "add-conformer") await createConformer(project, principalOf(user), speciesId, { label: parsed.data.label, geometry: parsed.data.geometry });
+    else await deleteConformer(project, principalOf(user), speciesId, parsed.data.conformerId);
+    return { errors: {} as Record<string, string> };
+  } catch (error) {
+    if (error instanceof ServiceError) return data({ errors: serviceErrorToFields(error) }, { status: error.status });
+    if (error instanceof z.ZodError) return data({ errors: { form: error.issues[0]?.message ?? "Invalid input" } }, { status: 422 });
+    throw error;
+  }
+}
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.species.label ?? "Species"} · Thermotally` }];
+
+function Frequencies({ list }: { list: number[] }) {
+  return (
+    <p className="num flex flex-wrap gap-x-2 text-xs" data-testid="frequencies">
+      {list.map((f, i) =>
+        f < 0 ? (
+          <span key={i} className="font-bold text-bad" title="imaginary mode">
+            {Math.abs(f).toFixed(1)}i
+          </span>
+        ) : (
+          <span key={i}>{f.toFixed(1)}</span>
+        ),
+      )}
+    </p>
+  );
+}
+
+export default function SpeciesDetail({ loaderData, actionData }: Route.ComponentProps) {
+  const { project, can } = useProject();
+  const { species, calculations } = loaderData;
+  const errors: Record<string, string> = actionData?.errors ?? {};
+  const busy = useNavigation().state !== "idle";
+  const base = `/projects/${project.id}`;
+  return (
+    <div className="space-y-4">
+      <p className="text-sm">
+        <Link to={`${base}/species`} className="link">
+          ← Species
+        </Link>
+      </p>
+      <section className="card">
+        <h2 className="text-lg font-bold" data-testid="species-label">
+          {species.label}
+        </h2>
+        <dl className="mt-2 grid grid-cols-2 gap-x-6 gap-y-1 text-sm md:grid-cols-4">
+          <div><dt className="label">Formula</dt><dd>{species.formula ?? "—"}</dd></div>
+          <div><dt className="label">SMILES</dt><dd className="break-all">{species.smiles ?? "—"}</dd></div>
+          <div><dt className="label">Charge · multiplicity</dt><dd>{formatCharge(species.charge)} · {formatMultiplicity(species.multiplicity)}</dd></div>
+          <div><dt className="label">Kind · symmetry number</dt><dd>{formatKind(species.kind)} · σ = {species.symmetryNumber}</dd></div>
+          {species.concentrationMolL !== null ? <div><dt className="label">Concentration</dt><dd>{species.concentrationMolL} mol/L</dd></div> : null}
+        </dl>
+      </section>
+
+      <section className="card">
+        <h2 className="mb-2 font-bold">Calculations per level</h2>
+        {calculations.length === 0 ? (
+          <p className="text-muted">No calculation stored for this species yet.</p>
+        ) : (
+          <table className="table" data-testid="species-calculations">
+            <thead>
+              <tr>
+                <th>Level</th>
+                <th>Conformer</th>
+                <th className="text-right">Electronic energy (hartree)</th>
+                <th>Converged</th>
+                <th>Thermal corrections (hartree)</th>
+                <th>Frequencies (cm⁻¹; imaginary in red)</th>
+                <th>Source</th>
+              </tr>
+            </thead>
+            <tbody>
+              {calculations.map((c) => (
+                <tr key={c.id}>
+                  <td className="whitespace-nowrap">{c.level.name}</td>
+                  <td>{c.conformer?.label ?? "—"}</td>
+                  <td className="num text-right" title={c.electronicEnergy ?? undefined}>
+                    {c.electronicEnergy ?? "—"}
+                  </td>
+                  <td className={c.converged ? "" : "font-medium text-bad"}>{c.converged ? "yes" : "no"}</td>
+                  <td className="num text-xs">
+                    {c.thermal ? `at ${c.thermal.temperature} K: ZPE ${c.thermal.zpe}, H ${c.thermal.enthalpyCorrection}, G ${c.thermal.gibbsCorrection}` : "—"}
+                  </td>
+                  <td className="max-w-md">
+                    {c.frequencies ? (
+                      <>
+                        <p className="text-xs text-muted">
+                          {c.frequencies.length} modes, {c.imaginaryModes} imaginary
+                        </p>
+                        <Frequencies list={c.frequencies} />
+                      </>
+                    ) : (
+                      "—"
+                    )}
+                  </td>
+                  <td className="text-xs text-muted">{c.source || "—"}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        )}
+        <p className="mt-2 text-xs text-muted">Energies are shown here with every stored digit.</p>
+      </section>
+
+      <div className="grid gap-4 lg:grid-cols-2">
+        <section className="card">
+          <h2 className="mb-2 font-bold">Geometry (XYZ, Å)</h2>
+          {species.geometry ? (
+            <pre className="max-h-96 overflow-auto rounded bg-paper p-2 text-xs" data-testid="geometry">
+              {species.geometry.data}
+            </pre>
+          ) : (
+            <p className="text-muted">No geometry stored.</p>
+          )}
+        </section>
+        <section className="card space-y-3">
+          <h2 className="font-bold">Conformers</h2>
+          <FormError error={errors.form} />
+          {species.conformers.length === 0 ? <p className="text-muted">None.</p> : null}
+          {species.conformers.map((c) => (
+            <details key={c.id} className="rounded border border-rule p-2">
+              <summary className="flex cursor-pointer items-center gap-2">
+                <span className="font-medium">{c.label}</span>
+                <span className="text-xs text-muted">{c.geometry ? "geometry stored" : "no geometry"}</span>
+                {can.edit ? (
+                  <Form method="post" className="ml-auto" onSubmit={(e) => { if (!confirm(`Delete conformer ${c.label} and its calculations?`)) e.preventDefault(); }}>
+                    <input type="hidden" name="intent" value="delete-conformer" />
+                    <input type="hidden" name="conformerId" value={c.id} />
+                    <button className="text-xs text-bad hover:underline" type="submit" disabled={busy}>
+                      Delete
+                    </button>
+                  </Form>
+                ) : null}
+              </summary>
+              {c.geometry ? <pre className="mt-2 max-h-60 overflow-auto text-xs">{c.geometry.data}</pre> : null}
+            </details>
+          ))}
+          {can.edit ? (
+            <Form method="post" className="space-y-2 border-t border-rule pt-3" noValidate>
+              <input type="hidden" name="intent" value="add-conformer" />
+              <Field label="Conformer label" name="label" error={errors.label} />
+              <div>
+                <label htmlFor="conformer-geometry" className="label">
+                  Geometry (XYZ, Å)
+                </label>
+                <textarea id="conformer-geometry" name="geometry" rows={4} className="input font-mono text-xs" />
+                {errors.geometry ? <p className="field-error" role="alert">{errors.geometry}</p> : null}
+              </div>
+              <button className="btn" type="submit" disabled={busy}>
+                Add conformer
+              </button>
+            </Form>
+          ) : null}
+        </section>
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,108 @@
+import { afterAll, beforeAll, describe, expect, test } from "vitest";
+import { api, DEMO, newProject } from "../integration/helpers";
+import { launchBrowser, open, screenshot, signIn, type TestBrowser } from "./harness";
+
+/** The species and calculations grids in Chromium: edit in place, paste a block, and read-only for a viewer. */
+describe("ledger grids in the browser", () => {
+  let chemist: TestBrowser;
+  let project: { id: number; token: string };
+  let levels: number[];
+
+  beforeAll(async () => {
+    project = await newProject(DEMO.chemist, [{ email: DEMO.coauthor, role: "viewer" }]);
+    const post = (path: string, body: unknown) => api(`/api/v1/projects/${project.id}${path}`, { token: project.token, body });
+    levels = [
+      (await post("/levels", { method: "B3LYP-D3(BJ)", basis: "def2-SVP" })).body.level.id,
+      (await post("/levels", { method: "ωB97X-D", basis: "def2-TZVP" })).body.level.id,
+    ];
+    await post("/species", { label: "H2O", formula: "H2O" });
+    await post("/species", { label: "NH3", formula: "NH3" });
+    chemist = await launchBrowser();
+    await signIn(chemist.page, DEMO.chemist);
+  });
+
+  afterAll(async () => {
+    await chemist?.close();
+  });
+
+  test("the chemist edits a species cell and the change is stored", async () => {
+    const page = chemist.page;
+    await open(page, `/projects/${project.id}/species`);
+    const cell = page.locator(".ag-row[row-index='0'] .ag-cell[col-id='symmetryNumber']");
+    await cell.waitFor();
+    await cell.dblclick();
+    await page.keyboard.press("Control+A");
+    await page.keyboard.type("2");
+    await page.keyboard.press("Enter");
+    await page.getByTestId("species-message").getByText("Saved H2O").waitFor();
+    const stored = await api(`/api/v1/projects/${project.id}/species/H2O`, { token: project.token });
+    expect(stored.body.species.symmetryNumber).toBe(2);
+    expect(stored.body.species.version).toBe(2);
+    await screenshot(page, "ledger-species-grid");
+  });
+
+  test("the chemist pastes a 2 × 2 block into the calculations grid", async () => {
+    const page = chemist.page;
+    await open(page, `/projects/${project.id}/calculations`);
+    const anchor = page.locator(`.ag-row[row-index='0'] .ag-cell[col-id='level-${levels[0]}']`);
+    await anchor.waitFor();
+    await anchor.click();
+    // A spreadsheet copy arrives as a paste event carrying tab-separated text.
+    await page.evaluate(() => {
+      const data = new DataTransfer();
+      data.setData("text/plain", "-76.4089123456789\t-76.4312\n-56.5478\t-56.5701\n");
+      (document.activeElement ?? document.body).dispatchEvent(new ClipboardEvent("paste", { clipboardData: data, bubbles: true, cancelable: true }));
+    });
+    await page.getByTestId("grid-message").getByText("Pasted 2 × 2 block: 4 added").waitFor();
+    const grid = await api(`/api/v1/projects/${project.id}/calculations/grid`, { token: project.token });
+    const byLabel = Object.fromEntries(grid.body.rows.map((r: { label: string; cells: Record<string, { energy: string }> }) => [r.label, r.cells]));
+    expect(byLabel.H2O[String(levels[0])].energy).toBe("-76.4089123456789");
+    expect(byLabel.NH3[String(levels[1])].energy).toBe("-56.5701");
+    // The display rounds to 6 decimals; the stored digits are kept.
+    await expect(anchor.innerText()).resolves.toBe("-76.408912");
+    await screenshot(page, "ledger-calculations-grid");
+  });
+
+  test("a block with a bad cell is refused whole, with the cell named", async () => {
+    const page = chemist.page;
+    await page.locator(`.ag-row[row-index='1'] .ag-cell[col-id='level-${levels[0]}']`).click();
+    await page.getByTestId("paste-block-open").click();
+    await page.locator("#paste-text").fill("-56.9\tabc");
+    await page.getByTestId("paste-apply").click();
+    await page.getByTestId("grid-message").getByText("nothing was changed").waitFor();
+    await expect(page.getByTestId("grid-message").innerText()).resolves.toMatch(/row 1, column 2/);
+    const grid = await api(`/api/v1/projects/${project.id}/calculations/grid`, { token: project.token });
+    const nh3 = grid.body.rows.find((r: { label: string }) => r.label === "NH3");
+    expect(nh3.cells[String(levels[0])].energy).toBe("-56.5478");
+  });
+
+  test("the viewer sees the grids without any edit control", async () => {
+    const viewer = await launchBrowser();
+    try {
+      await signIn(viewer.page, DEMO.coauthor);
+      const page = viewer.page;
+      await open(page, `/projects/${project.id}/species`);
+      const cell = page.locator(".ag-row[row-index='0'] .ag-cell[col-id='symmetryNumber']");
+      await cell.waitFor();
+      await cell.dblclick();
+      await expect(page.locator(".ag-cell-inline-editing").count()).resolves.toBe(0);
+      await expect(page.getByTestId("add-species").count()).resolves.toBe(0);
+      await expect(page.locator(".ag-cell[col-id='delete']").count()).resolves.toBe(0);
+      await open(page, `/projects/${project.id}/calculations`);
+      await page.locator(`.ag-row[row-index='0'] .ag-cell[col-id='level-${levels[0]}']`).dblclick();
+      await expect(page.locator(".ag-cell-inline-editing").count()).resolves.toBe(0);
+      await expect(page.getByTestId("paste-block-open").count()).resolves.toBe(0);
+      await open(page, `/projects/${project.id}/levels`);
+      await expect(page.getByTestId("add-level").count()).resolves.toBe(0);
+      await open(page, `/projects/${project.id}/protocols`);
+      await expect(page.getByTestId("protocol-form").count()).resolves.toBe(0);
+      expect(viewer.foreignRequests).toEqual([]);
+    } finally {
+      await viewer.close();
+    }
+  });
+
+  test("no page requested another host", () => {
+    expect(chemist.foreignRequests).toEqual([]);
+  });
+});

@@ -1,0 +1,249 @@
+import { beforeAll, describe, expect, test } from "vitest";
+import { api, BASE_URL, DEMO, newProject, signUp, tokenFor, unique } from "./helpers";
+
+/**
+ * Levels, species, calculations and protocols through the API: creation, alias reuse, validation that
+ * stores nothing, permissions of every route, optimistic locking, history and the grid's all-or-nothing paste.
+ */
+type Who = { token?: string; cookie?: string };
+const call = (path: string, who: Who, method = "GET", body?: unknown) =>
+  api(path, { method, token: who.token, body, headers: who.cookie ? { Cookie: who.cookie } : {} });
+
+let projectId: number;
+let owner: Who;
+let editor: Who;
+let auditor: Who;
+let viewer: Who;
+let stranger: Who;
+const p = (rest: string) => `/api/v1/projects/${projectId}${rest}`;
+
+beforeAll(async () => {
+  const editorEmail = `${unique("editor")}@example.test`;
+  const editorCookie = await signUp(editorEmail);
+  const strangerCookie = await signUp(`${unique("stranger")}@example.test`);
+  const made = await newProject(DEMO.chemist, [
+    { email: editorEmail, role: "editor" },
+    { email: DEMO.supervisor, role: "auditor" },
+    { email: DEMO.coauthor, role: "viewer" },
+  ]);
+  projectId = made.id;
+  owner = { token: made.token };
+  editor = { cookie: editorCookie };
+  auditor = { token: await tokenFor(DEMO.supervisor) };
+  viewer = { token: await tokenFor(DEMO.coauthor) };
+  stranger = { cookie: strangerCookie };
+});
+
+describe("creating through the API", () => {
+  test("a level, its alias reused (200), a species, a calculation and a protocol", async () => {
+    const level = await call(p("/levels"), owner, "POST", { method: "B3LYP-D3(BJ)", basis: "def2-SVP" });
+    expect(level.status).toBe(201);
+    expect(level.body.level).toMatchObject({ key: expect.any(String), name: "B3LYP-D3(BJ)/def2-SVP" });
+    // 6-31G** and 6-31G(d,p) name the same basis; D3BJ = D3(BJ) (PRODUCT.md §2).
+    const alias = await call(p("/levels"), owner, "POST", { method: "b3lyp", dispersion: "D3BJ", basis: "def2svp" });
+    expect(alias.status).toBe(200);
+    expect(alias.body.level.id).toBe(level.body.level.id);
+    expect(alias.body.reused).toBe(true);
+    const pople1 = await call(p("/levels"), owner, "POST", { method: "M06-2X", basis: "6-31G**" });
+    const pople2 = await call(p("/levels"), owner, "POST", { method: "M06-2X", basis: "6-31G(d,p)" });
+    expect([pople1.status, pople2.status]).toEqual([201, 200]);
+    const zero = await call(p("/levels"), owner, "POST", { method: "B3LYP-D3(0)", basis: "def2-SVP" });
+    expect(zero.status).toBe(201);
+    expect(zero.body.level.id).not.toBe(level.body.level.id);
+
+    const water = await call(p("/species"), owner, "POST", {
+      label: "H2O",
+      smiles: "O",
+      geometry: { format: "xyz", data: "3\nwater\nO 0 0 0.1173\nH 0 0.7572 -0.4692\nH 0 -0.7572 -0.4692" },
+      symmetryNumber: 2,
+    });
+    expect(water.status).toBe(201);
+    expect(water.body.species).toMatchObject({ label: "H2O", formula: "H2O", charge: 0, multiplicity: 1, hasGeometry: true });
+
+    const calc = await call(p("/calculations"), owner, "POST", {
+      species: "H2O",
+      level: "B3LYP-D3BJ/def2SVP",
+      electronicEnergy: "-76.4089123456789012",
+      frequencies: [1627.1, 3793.2, 3898.5],
+      thermal: { temperature: 298.15, zpe: "0.021305", enthalpyCorrection: "0.025084", gibbsCorrection: "0.003667" },
+    });
+    expect(calc.status).toBe(201);
+    // The energy comes back exactly as entered, as a decimal string in hartree.
+    expect(calc.body.calculation.electronicEnergy).toBe("-76.4089123456789012");
+    expect(calc.body.calculation.level.id).toBe(level.body.level.id);
+
+    const protocol = await call(p("/protocols"), owner, "POST", { name: "gas", energyLevel: level.body.level.key });
+    expect(protocol.status).toBe(201);
+    expect(protocol.body.protocol).toMatchObject({ name: "gas", temperature: 298.15, standardState: "1 atm", isDefault: true });
+    const second = await call(p("/protocols"), owner, "POST", {
+      name: "solution",
+      energyLevel: zero.body.level.id,
+      thermalLevel: level.body.level.id,
+      standardState: "1 M",
+      lowFrequency: { treatment: "grimme", cutoff: 100 },
+    });
+    expect(second.status).toBe(201);
+    expect(second.body.protocol.isDefault).toBe(false);
+    expect(second.body.protocol.notation).toBe("B3LYP-D3(0)/def2-SVP // B3LYP-D3(BJ)/def2-SVP");
+    const pick = await call(p(`/protocols/${second.body.protocol.id}`), editor, "PATCH", { isDefault: true });
+    expect(pick.status).toBe(200);
+    expect(pick.body.protocol.isDefault).toBe(true);
+    const project = await call(`/api/v1/projects/${projectId}`, owner);
+    expect(project.body.project.defaultProtocolId).toBe(second.body.protocol.id);
+  });
+});
+
+describe("bad input is refused with the field named, and nothing is stored", () => {
+  const count = async (kind: string) => ((await call(p(`/${kind}`), owner)).body[kind] as unknown[]).length;
+
+  test.each([
+    ["species", { label: "CH2", formula: "CH2", multiplicity: 2 }, "multiplicity"],
+    ["species", { label: "bad geo", formula: "C2H4" }, "label"],
+    ["species", { label: "ethene", smiles: "C=C", geometry: { format: "xyz", data: "C 0 0 0\nC 0 0 1.33" } }, "geometry"],
+    ["species", { label: "nothing" }, "formula"],
+    ["calculations", { species: "TS9", level: "B3LYP-D3(BJ)/def2-SVP", electronicEnergy: "-1.5" }, "species"],
+    ["calculations", { species: "H2O", level: "PBE/def2-QZVP", electronicEnergy: "-76.4" }, "level"],
+    ["calculations", { species: "H2O", level: "B3LYP-D3(BJ)/def2-SVP", electronicEnergy: "12.5" }, "electronicEnergy"],
+    ["calculations", { species: "H2O", level: "B3LYP-D3(BJ)/def2-SVP", electronicEnergy: "minus seventy" }, "electronicEnergy"],
+    ["protocols", { name: "hot", energyLevel: "B3LYP-D3(BJ)/def2-SVP", temperature: -5 }, "temperature"],
+    ["protocols", { name: "odd", energyLevel: "nope/nothing" }, "energyLevel"],
+  ])("POST %s %j → 422 on %s", async (kind, body, field) => {
+    const before = await count(kind);
+    const res = await call(p(`/${kind}`), owner, "POST", body);
+    expect(res.status).toBe(422);
+    expect(res.body.error.details.map((d: { field: string }) => d.field)).toContain(field);
+    expect(await count(kind)).toBe(before);
+  });
+
+  test("the unknown species is named in the message", async () => {
+    const res = await call(p("/calculations"), owner, "POST", { species: "TS9", level: 1, electronicEnergy: "-1" });
+    expect(res.body.error.message).toBe('species "TS9" is not in this project');
+  });
+
+  test("an impossible multiplicity says why", async () => {
+    const res = await call(p("/species"), owner, "POST", { label: "CH2x", formula: "CH2", multiplicity: 2 });
+    // CH2 has 8 electrons: an even count allows only odd multiplicities (common practice).
+    expect(res.body.error.message).toMatch(/8 electrons/);
+  });
+});
+
+describe("optimistic locking and history", () => {
+  test("a stale version is refused with 409 and the current values; the accepted edit is in the history", async () => {
+    const created = await call(p("/species"), owner, "POST", { label: "NH3", formula: "NH3", symmetryNumber: 3 });
+    const id = created.body.species.id;
+    const first = await call(p(`/species/${id}`), owner, "PATCH", { notes: "pyramidal", version: 1 });
+    expect(first.status).toBe(200);
+    expect(first.body.species.version).toBe(2);
+    const stale = await call(p(`/species/${id}`), editor, "PATCH", { symmetryNumber: 6, version: 1 });
+    expect(stale.status).toBe(409);
+    expect(stale.body.error.current).toMatchObject({ id, version: 2, symmetryNumber: 3 });
+    const history = await call(p(`/history?objectType=species&objectId=${id}`), owner);
+    expect(history.status).toBe(200);
+    expect(history.body.history.map((h: { action: string }) => h.action)).toEqual(["update", "create"]);
+    expect(history.body.history[0].newValues).toMatchObject({ notes: "pyramidal" });
+  });
+});
+
+describe("the calculations grid", () => {
+  test("a block with one bad cell stores nothing and lists the cell; a good block stores every cell", async () => {
+    await call(p("/species"), owner, "POST", { label: "CO", formula: "CO" });
+    const levels = (await call(p("/levels"), owner)).body.levels as { id: number; key: string }[];
+    const [l1, l2] = [levels[0]!.id, levels[1]!.id];
+    const before = ((await call(p("/calculations"), owner)).body.calculations as unknown[]).length;
+    const bad = await call(p("/calculations/grid"), owner, "POST", {
+      cells: [
+        { species: "CO", level: l1, electronicEnergy: "-113.3", row: 0, column: 0 },
+        { species: "CO", level: l2, electronicEnergy: "-113.31", row: 0, column: 1 },
+        { species: "NH3", level: l1, electronicEnergy: "oops", row: 1, column: 0 },
+        { species: "NH3", level: l2, electronicEnergy: "-56.5", row: 1, column: 1 },
+      ],
+    });
+    expect(bad.status).toBe(422);
+    expect(bad.body.error.details).toEqual([expect.objectContaining({ row: 1, column: 0, field: "cells[2].electronicEnergy" })]);
+    expect(((await call(p("/calculations"), owner)).body.calculations as unknown[]).length).toBe(before);
+
+    const good = await call(p("/calculations/grid"), editor, "POST", {
+      cells: [
+        { species: "CO", level: l1, electronicEnergy: "-113.300000000001" },
+        { species: "CO", level: l2, electronicEnergy: "-113.31" },
+        { species: "NH3", level: l1, electronicEnergy: "-56.5" },
+        { species: "NH3", level: l2, electronicEnergy: "-56.51" },
+      ],
+    });
+    expect(good.status).toBe(200);
+    expect(good.body.grid).toEqual({ created: 4, updated: 0, unchanged: 0 });
+    const grid = await call(p("/calculations/grid"), owner);
+    const co = grid.body.rows.find((r: { label: string }) => r.label === "CO");
+    expect(co.cells[String(l1)].energy).toBe("-113.300000000001");
+    const history = await call(p("/history?objectType=calculation&limit=10"), owner);
+    expect(history.body.history.filter((h: { summary: string }) => h.summary.startsWith("Grid:")).length).toBe(4);
+  });
+});
+
+describe("permissions of every route", () => {
+  const routes: { path: () => string; write?: { method: string; body: unknown } }[] = [
+    { path: () => p("/levels"), write: { method: "POST", body: { method: "PBE0", basis: "def2-TZVP" } } },
+    { path: () => p("/species"), write: { method: "POST", body: { label: unique("X").replace(/-/g, ""), formula: "He" } } },
+    { path: () => p("/calculations"), write: { method: "POST", body: { species: "H2O", level: "B3LYP-D3(BJ)/def2-SVP", electronicEnergy: "-76.1" } } },
+    { path: () => p("/protocols"), write: { method: "POST", body: { name: unique("pr"), energyLevel: "B3LYP-D3(BJ)/def2-SVP" } } },
+    { path: () => p("/calculations/grid"), write: { method: "POST", body: { cells: [{ species: "H2O", level: "B3LYP-D3(BJ)/def2-SVP", electronicEnergy: "-76.2" }] } } },
+    { path: () => p("/history") },
+    { path: () => p("/species/H2O"), write: { method: "PATCH", body: { notes: "x" } } },
+    { path: () => p("/species/H2O/conformers"), write: { method: "POST", body: { label: unique("c") } } },
+  ];
+
+  test("reads: members yes, non-member 404, no token 401", async () => {
+    for (const r of routes) {
+      for (const who of [owner, editor, auditor, viewer]) expect((await call(r.path(), who)).status, r.path()).toBe(200);
+      expect((await call(r.path(), stranger)).status, r.path()).toBe(404);
+      expect((await call(r.path(), {})).status, r.path()).toBe(401);
+    }
+  });
+
+  test("writes: owner and editor yes, auditor and viewer 403, non-member 404, no token 401", async () => {
+    for (const r of routes.filter((x) => x.write)) {
+      for (const who of [auditor, viewer]) expect((await call(r.path(), who, r.write!.method, r.write!.body)).status, r.path()).toBe(403);
+      expect((await call(r.path(), stranger, r.write!.method, r.write!.body)).status, r.path()).toBe(404);
+      expect((await call(r.path(), {}, r.write!.method, r.write!.body)).status, r.path()).toBe(401);
+      const ok = await call(r.path(), editor, r.write!.method, r.write!.body);
+      expect([200, 201], `${r.path()} ${JSON.stringify(ok.body)}`).toContain(ok.status);
+    }
+  });
+
+  test("per-item routes of levels, calculations and protocols: PATCH and DELETE", async () => {
+    const level = (await call(p("/levels"), owner, "POST", { method: "TPSS", basis: "def2-SVP" })).body.level;
+    const calc = (await call(p("/calculations"), owner, "POST", { species: "H2O", level: level.id, electronicEnergy: "-76.3" })).body.calculation;
+    const protocol = (await call(p("/protocols"), owner, "POST", { name: unique("tpss"), energyLevel: level.id })).body.protocol;
+    for (const [path, body] of [
+      [p(`/levels/${level.id}`), { method: "TPSS", basis: "def2-SVP", version: level.version }],
+      [p(`/calculations/${calc.id}`), { electronicEnergy: "-76.31", version: calc.version }],
+      [p(`/protocols/${protocol.id}`), { temperature: 310, version: protocol.version }],
+    ] as const) {
+      for (const who of [owner, editor, auditor, viewer]) expect((await call(path, who)).status).toBe(200);
+      expect((await call(path, stranger)).status).toBe(404);
+      for (const who of [auditor, viewer]) {
+        expect((await call(path, who, "PATCH", body)).status).toBe(403);
+        expect((await call(path, who, "DELETE")).status).toBe(403);
+      }
+      expect((await call(path, stranger, "PATCH", body)).status).toBe(404);
+      expect((await call(path, {}, "PATCH", body)).status).toBe(401);
+      expect((await call(path, editor, "PATCH", body)).status).toBe(200);
+      expect((await call(path, editor, "PATCH", body)).status).toBe(409);
+    }
+    // A level still in use is kept; removing its users first lets it go.
+    expect((await call(p(`/levels/${level.id}`), editor, "DELETE")).status).toBe(409);
+    expect((await call(p(`/calculations/${calc.id}`), editor, "DELETE")).status).toBe(204);
+    expect((await call(p(`/protocols/${protocol.id}`), owner, "DELETE")).status).toBe(204);
+    expect((await call(p(`/levels/${level.id}`), owner, "DELETE")).status).toBe(204);
+    expect((await call(p(`/levels/${level.id}`), owner)).status).toBe(422);
+  });
+
+  test("the pages answer members and hide nothing the server would allow", async () => {
+    for (const page of ["species", "levels", "calculations", "protocols"]) {
+      const res = await fetch(`${BASE_URL}/projects/${projectId}/${page}`, { headers: { Authorization: `Bearer ${viewer.token}` } });
+      expect(res.status, page).toBe(200);
+      const html = await res.text();
+      expect(html).not.toMatch(/Add species|Add level|Add protocol|Paste block/);
+    }
+  });
+});
