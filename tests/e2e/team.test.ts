@@ -88,22 +88,44 @@ describe("team work in the browser", () => {
   });
 
   test("a share link opens read-only in a fresh browser without sign-in", async () => {
-    await open(owner.page, `/projects/${projectId}/members`);
+    // The seeded demo project, so that the ledger, the diagrams and the audit have something to show.
+    const projects = await (await owner.page.request.get(`${BASE_URL}/api/v1/projects`)).json();
+    const demoId = projects.projects.find((x: { name: string }) => x.name.includes("(demo)")).id as number;
+    await open(owner.page, `/projects/${demoId}/members`);
     await owner.page.locator("#share-label").fill("coauthors");
     await owner.page.getByRole("button", { name: "Create link" }).click();
     const urlInput = owner.page.locator('[data-testid="new-share-url"]');
     await urlInput.waitFor();
     const shareUrl = await urlInput.inputValue();
     expect(shareUrl).toContain("/share/");
+    await screenshot(owner.page, "team-members-share-link");
 
     const coauthor = await launchBrowser();
     try {
       const response = await coauthor.page.goto(shareUrl);
       expect(response?.status()).toBe(200);
       await expect(coauthor.page.locator('[data-testid="read-only-badge"]').innerText()).resolves.toBe("read only");
+      await screenshot(coauthor.page, "team-share-overview");
+
+      // A pathway: the app's own energy-profile drawing.
+      await coauthor.page.locator("main a[href*='/pathways/']").first().click();
+      await coauthor.page.locator('[data-testid="pathway-diagram"] svg').waitFor();
+      const pathwayUrl = coauthor.page.url();
+      await screenshot(coauthor.page, "team-share-pathway");
+
+      // The ledger, and its unit switch (plain links: the values change, nothing is written).
+      await coauthor.page.goto(`${shareUrl}/ledger`);
+      const cell = coauthor.page.locator(".ag-row[row-index='0'] .ag-cell[col-id='deltaE']");
+      await cell.waitFor({ timeout: 20000 });
+      const kcal = (await cell.textContent())!.trim();
+      await coauthor.page.locator('[data-testid="unit-kJ/mol"]').click();
+      await coauthor.page.waitForURL((u) => u.searchParams.get("unit") === "kJ/mol");
+      await expect.poll(async () => (await cell.textContent())!.trim(), { timeout: 10000 }).not.toBe(kcal);
+      await screenshot(coauthor.page, "team-share-ledger-kj");
+
       // Nothing to change: no form that posts, no submit button, no editable field.
-      for (const sub of ["", "/ledger", "/audit"]) {
-        await coauthor.page.goto(shareUrl + sub);
+      for (const target of [shareUrl, `${shareUrl}/ledger`, pathwayUrl, `${shareUrl}/audit`]) {
+        await coauthor.page.goto(target);
         await expect(coauthor.page.locator('form[method="post"], form[method="POST"]').count()).resolves.toBe(0);
         await expect(coauthor.page.locator('button[type="submit"], textarea, input:not([readonly])').count()).resolves.toBe(0);
       }

@@ -359,7 +359,8 @@ describe("share links", () => {
 
 // ------------------------------------------------------------------ permission matrix
 type Ctx = { projectId: number; reactionId: number; pathwayId: number; shareToken: string; snapshotId: number };
-type Setup = { path: string; body?: unknown };
+/** A request: a JSON (or, for pages, form) body, or one file sent as multipart/form-data in the field "file". */
+type Setup = { path: string; body?: unknown; file?: { name: string; text: string; type?: string } };
 type Entry = {
   method: string;
   route: string; // as in app/routes.ts, under /api/v1
@@ -367,13 +368,25 @@ type Entry = {
   /** Request for a role that may: path and body (a fresh object where the request consumes it). */
   request: (ctx: Ctx, n: number) => Promise<Setup> | Setup;
   /**
-   * Expected answer when allowed: "2xx"; "reached" where the body is not built here (any answer but
-   * 401/403/404, e.g. a validation error); "any" where the object may not exist (any answer but 401/403).
+   * Expected answer when allowed: the exact status (and, for a redirect, where it points); without it,
+   * any 2xx. "any" where the object asked for may not exist (any answer but 401/403).
    */
-  allowed?: "2xx" | "reached" | "any";
+  allowed?: { status: number; location?: RegExp } | "any";
 };
 
 const P = (ctx: Ctx) => `/api/v1/projects/${ctx.projectId}`;
+/** A valid calculator request: water, fundamentals and geometry from memory (NIST CCCBDB); only the answer's status is checked here. */
+const CALCULATOR_BODY = {
+  frequencies: [1594.6, 3657.1, 3755.8],
+  geometry: { format: "xyz", data: "3\nwater\nO 0 0 0.1173\nH 0 0.7572 -0.4692\nH 0 -0.7572 -0.4692\n" },
+  symmetryNumber: 2,
+};
+/** A new account that belongs to no project yet (for adding members through the page). */
+const freshUser = async () => {
+  const email = `${unique("joiner")}@example.test`;
+  await signUp(email, PASSWORD, "Jo Joiner");
+  return email;
+};
 const ownerApi = (path: string, body: unknown) => api(path, { token: tokens.owner, body });
 const fresh = async (ctx: Ctx, kind: string, n: number): Promise<number | string> => {
   const label = `${kind}-${n}-${Date.now().toString(36)}`;
@@ -407,8 +420,8 @@ const fresh = async (ctx: Ctx, kind: string, n: number): Promise<number | string
 /** Every write route under /api/v1 (and each read-only one, listed with method "GET"). */
 const API_ROUTES: Entry[] = [
   { method: "POST", route: "session", needs: "public", request: () => ({ path: "/api/v1/session", body: { email: DEMO.coauthor, password: "thermotally-demo" } }) },
-  { method: "POST", route: "thermo", needs: "user", allowed: "reached", request: () => ({ path: "/api/v1/thermo", body: {} }) },
-  { method: "POST", route: "projects", needs: "user", request: () => ({ path: "/api/v1/projects", body: { name: unique("matrix") } }) },
+  { method: "POST", route: "thermo", needs: "user", allowed: { status: 200 }, request: () => ({ path: "/api/v1/thermo", body: CALCULATOR_BODY }) },
+  { method: "POST", route: "projects", needs: "user", allowed: { status: 201 }, request: () => ({ path: "/api/v1/projects", body: { name: unique("matrix") } }) },
   { method: "PATCH", route: "projects/:projectId", needs: "manage", request: (c) => ({ path: P(c), body: { name: unique("renamed") } }) },
   {
     method: "DELETE",
@@ -416,62 +429,82 @@ const API_ROUTES: Entry[] = [
     needs: "manage",
     request: async () => ({ path: `/api/v1/projects/${(await teamProject()).id}` }),
   },
-  { method: "POST", route: "projects/:projectId/levels", needs: "edit", request: (c) => ({ path: `${P(c)}/levels`, body: { method: "B3LYP", basis: "def2-TZVP" } }) },
+  { method: "POST", route: "projects/:projectId/levels", allowed: { status: 201 }, needs: "edit", request: (c, n) => ({ path: `${P(c)}/levels`, body: { method: "TPSS", basis: ["def2-SVP", "def2-TZVP", "cc-pVTZ", "6-31G*", "def2-QZVP", "aug-cc-pVDZ", "6-311G**"][n % 7] } }) },
   { method: "PATCH", route: "projects/:projectId/levels/:itemId", needs: "edit", request: async (c, n) => ({ path: `${P(c)}/levels/${await fresh(c, "level", n)}`, body: { method: "PBE0", basis: ["def2-SVP", "cc-pVDZ", "cc-pVTZ", "6-31G*", "def2-QZVP", "aug-cc-pVDZ", "6-311G**", "cc-pVQZ"][n % 8], dispersion: "D3(BJ)" } }) },
   { method: "DELETE", route: "projects/:projectId/levels/:itemId", needs: "edit", request: async (c, n) => ({ path: `${P(c)}/levels/${await fresh(c, "level", n + 4)}` }) },
-  { method: "POST", route: "projects/:projectId/species", needs: "edit", request: (c) => ({ path: `${P(c)}/species`, body: { label: unique("S"), formula: "CH4" } }) },
+  { method: "POST", route: "projects/:projectId/species", allowed: { status: 201 }, needs: "edit", request: (c) => ({ path: `${P(c)}/species`, body: { label: unique("S"), formula: "CH4" } }) },
   { method: "PATCH", route: "projects/:projectId/species/:itemId", needs: "edit", request: async (c, n) => ({ path: `${P(c)}/species/${await fresh(c, "species", n)}`, body: { notes: "matrix" } }) },
   { method: "DELETE", route: "projects/:projectId/species/:itemId", needs: "edit", request: async (c, n) => ({ path: `${P(c)}/species/${await fresh(c, "species", n)}` }) },
-  { method: "POST", route: "projects/:projectId/species/:itemId/conformers", needs: "edit", request: async (c, n) => ({ path: `${P(c)}/species/${await fresh(c, "species", n)}/conformers`, body: { label: "c1", geometry: "2\nH2\nH 0 0 0\nH 0 0 0.74\n" } }) },
+  { method: "POST", route: "projects/:projectId/species/:itemId/conformers", allowed: { status: 201 }, needs: "edit", request: async (c, n) => ({ path: `${P(c)}/species/${await fresh(c, "species", n)}/conformers`, body: { label: "c1", geometry: "2\nH2\nH 0 0 0\nH 0 0 0.74\n" } }) },
   { method: "PATCH", route: "projects/:projectId/species/:itemId/conformers/:conformerId", needs: "edit", request: async (c, n) => ({ path: `${P(c)}/species/${await fresh(c, "conformer", n)}`, body: { label: "c1b" } }) },
   { method: "DELETE", route: "projects/:projectId/species/:itemId/conformers/:conformerId", needs: "edit", request: async (c, n) => ({ path: `${P(c)}/species/${await fresh(c, "conformer", n)}` }) },
-  { method: "POST", route: "projects/:projectId/calculations", needs: "edit", request: (c) => ({ path: `${P(c)}/calculations`, body: { species: "H2", level: "B3LYP/def2-TZVP", electronicEnergy: "-1.1795" } }) },
-  { method: "POST", route: "projects/:projectId/calculations/grid", needs: "edit", allowed: "reached", request: (c) => ({ path: `${P(c)}/calculations/grid`, body: {} }) },
+  { method: "POST", route: "projects/:projectId/calculations", allowed: { status: 201 }, needs: "edit", request: (c) => ({ path: `${P(c)}/calculations`, body: { species: "H2", level: "B3LYP/def2-TZVP", electronicEnergy: "-1.1795" } }) },
+  { method: "POST", route: "projects/:projectId/calculations/grid", needs: "edit", allowed: { status: 200 }, request: (c, n) => ({ path: `${P(c)}/calculations/grid`, body: { cells: [{ species: "H2", level: "B3LYP/def2-TZVP", electronicEnergy: `-1.17950${n}` }] } }) },
   { method: "PATCH", route: "projects/:projectId/calculations/:itemId", needs: "edit", request: async (c, n) => ({ path: `${P(c)}/calculations/${await fresh(c, "calculation", n)}`, body: { converged: true } }) },
   { method: "DELETE", route: "projects/:projectId/calculations/:itemId", needs: "edit", request: async (c, n) => ({ path: `${P(c)}/calculations/${await fresh(c, "calculation", n)}` }) },
-  { method: "POST", route: "projects/:projectId/protocols", needs: "edit", request: (c) => ({ path: `${P(c)}/protocols`, body: { name: unique("proto"), energyLevel: "B3LYP/def2-TZVP" } }) },
+  { method: "POST", route: "projects/:projectId/protocols", allowed: { status: 201 }, needs: "edit", request: (c) => ({ path: `${P(c)}/protocols`, body: { name: unique("proto"), energyLevel: "B3LYP/def2-TZVP" } }) },
   { method: "PATCH", route: "projects/:projectId/protocols/:itemId", needs: "edit", request: async (c, n) => ({ path: `${P(c)}/protocols/${await fresh(c, "protocol", n)}`, body: { temperature: 310 } }) },
   { method: "DELETE", route: "projects/:projectId/protocols/:itemId", needs: "edit", request: async (c, n) => ({ path: `${P(c)}/protocols/${await fresh(c, "protocol", n)}` }) },
   { method: "GET", route: "projects/:projectId/history", needs: "read", request: (c) => ({ path: `${P(c)}/history` }) },
-  { method: "POST", route: "projects/:projectId/invitations", needs: "manage", request: (c) => ({ path: `${P(c)}/invitations`, body: { email: `${unique("m")}@example.test`, role: "viewer" } }) },
+  { method: "POST", route: "projects/:projectId/invitations", allowed: { status: 201 }, needs: "manage", request: (c) => ({ path: `${P(c)}/invitations`, body: { email: `${unique("m")}@example.test`, role: "viewer" } }) },
   { method: "DELETE", route: "projects/:projectId/invitations/:invitationId", needs: "manage", request: async (c, n) => ({ path: `${P(c)}/invitations/${await fresh(c, "invitation", n)}` }) },
-  { method: "POST", route: "projects/:projectId/share-links", needs: "manage", request: (c) => ({ path: `${P(c)}/share-links`, body: { label: "matrix" } }) },
+  { method: "POST", route: "projects/:projectId/share-links", allowed: { status: 201 }, needs: "manage", request: (c) => ({ path: `${P(c)}/share-links`, body: { label: "matrix" } }) },
   { method: "DELETE", route: "projects/:projectId/share-links/:shareLinkId", needs: "manage", request: async (c, n) => ({ path: `${P(c)}/share-links/${await fresh(c, "share-link", n)}` }) },
-  { method: "POST", route: "projects/:projectId/snapshots", needs: "review", request: (c) => ({ path: `${P(c)}/snapshots`, body: { statement: "matrix" } }) },
+  { method: "POST", route: "projects/:projectId/snapshots", allowed: { status: 201 }, needs: "review", request: (c) => ({ path: `${P(c)}/snapshots`, body: { statement: "matrix" } }) },
   { method: "GET", route: "projects/:projectId/snapshots/:snapshotId", needs: "read", request: (c) => ({ path: `${P(c)}/snapshots/${c.snapshotId}` }) },
   { method: "GET", route: "projects/:projectId/snapshots/:snapshotId/export.xlsx", needs: "read", request: (c) => ({ path: `${P(c)}/snapshots/${c.snapshotId}/export.xlsx` }) },
   { method: "GET", route: "projects/:projectId/changes", needs: "read", request: (c) => ({ path: `${P(c)}/changes` }) },
-  { method: "POST", route: "projects/:projectId/comments", needs: "comment", request: (c) => ({ path: `${P(c)}/comments`, body: { targetType: "reaction", targetKey: c.reactionId, body: "matrix" } }) },
-  { method: "POST", route: "projects/:projectId/findings/accept", needs: "review", request: (c) => ({ path: `${P(c)}/findings/accept`, body: { findingKey: "matrix:reaction:1", reason: "matrix" } }) },
-  { method: "POST", route: "projects/:projectId/reactions", needs: "edit", request: (c) => ({ path: `${P(c)}/reactions`, body: { equation: "2 H2 + O2 -> 2 H2O" } }) },
+  { method: "POST", route: "projects/:projectId/comments", allowed: { status: 201 }, needs: "comment", request: (c) => ({ path: `${P(c)}/comments`, body: { targetType: "reaction", targetKey: c.reactionId, body: "matrix" } }) },
+  { method: "POST", route: "projects/:projectId/findings/accept", allowed: { status: 201 }, needs: "review", request: (c) => ({ path: `${P(c)}/findings/accept`, body: { findingKey: "matrix:reaction:1", reason: "matrix" } }) },
+  { method: "POST", route: "projects/:projectId/reactions", allowed: { status: 201 }, needs: "edit", request: (c) => ({ path: `${P(c)}/reactions`, body: { equation: "2 H2 + O2 -> 2 H2O" } }) },
   { method: "PATCH", route: "projects/:projectId/reactions/:reactionId", needs: "edit", request: async (c, n) => ({ path: `${P(c)}/reactions/${await fresh(c, "reaction", n)}`, body: { notes: "matrix" } }) },
   { method: "DELETE", route: "projects/:projectId/reactions/:reactionId", needs: "edit", request: async (c, n) => ({ path: `${P(c)}/reactions/${await fresh(c, "reaction", n)}` }) },
   { method: "GET", route: "projects/:projectId/reactions/:reactionId/breakdown", needs: "read", request: (c) => ({ path: `${P(c)}/reactions/${c.reactionId}/breakdown` }) },
-  { method: "POST", route: "projects/:projectId/pathways", needs: "edit", request: (c) => ({ path: `${P(c)}/pathways`, body: { name: unique("pw"), states: [{ label: "a", terms: [{ species: "H2O", coefficient: 1 }] }, { label: "b", terms: [{ species: "H2O", coefficient: 1 }] }] } }) },
+  { method: "POST", route: "projects/:projectId/pathways", allowed: { status: 201 }, needs: "edit", request: (c) => ({ path: `${P(c)}/pathways`, body: { name: unique("pw"), states: [{ label: "a", terms: [{ species: "H2O", coefficient: 1 }] }, { label: "b", terms: [{ species: "H2O", coefficient: 1 }] }] } }) },
   { method: "PATCH", route: "projects/:projectId/pathways/:pathwayId", needs: "edit", request: async (c, n) => ({ path: `${P(c)}/pathways/${await fresh(c, "pathway", n)}`, body: { name: unique("pw2") } }) },
   { method: "DELETE", route: "projects/:projectId/pathways/:pathwayId", needs: "edit", request: async (c, n) => ({ path: `${P(c)}/pathways/${await fresh(c, "pathway", n)}` }) },
   { method: "GET", route: "projects/:projectId/audit", needs: "read", request: (c) => ({ path: `${P(c)}/audit` }) },
-  { method: "POST", route: "projects/:projectId/imports", needs: "edit", allowed: "reached", request: (c) => ({ path: `${P(c)}/imports?dryRun=1` }) },
+  { method: "POST", route: "projects/:projectId/imports", needs: "edit", allowed: { status: 201 }, request: (c) => ({ path: `${P(c)}/imports`, file: { name: "matrix.csv", type: "text/csv", text: `Species,Formula,Level,Electronic energy (hartree)\n${unique("imp")},H2,B3LYP/def2-TZVP,-1.1795\n` } }) },
   { method: "GET", route: "projects/:projectId/imports/:template", needs: "read", allowed: "any", request: (c) => ({ path: `${P(c)}/imports/template.csv` }) },
-  { method: "POST", route: "projects/:projectId/calculations/:calculationId/files", needs: "edit", allowed: "reached", request: async (c, n) => ({ path: `${P(c)}/calculations/${await fresh(c, "calculation", n)}/files` }) },
+  { method: "POST", route: "projects/:projectId/calculations/:calculationId/files", needs: "edit", allowed: { status: 201 }, request: async (c, n) => ({ path: `${P(c)}/calculations/${await fresh(c, "calculation", n)}/files`, file: { name: "freq.out", text: `an output file kept untouched as provenance (${n})\n` } }) },
   { method: "GET", route: "projects/:projectId/files", needs: "read", request: (c) => ({ path: `${P(c)}/files` }) },
   { method: "GET", route: "projects/:projectId/files/:fileId", needs: "read", allowed: "any", request: (c) => ({ path: `${P(c)}/files/999999` }) },
   { method: "GET", route: "projects/:projectId/export.xlsx", needs: "read", request: (c) => ({ path: `${P(c)}/export.xlsx` }) },
   { method: "GET", route: "projects/:projectId/export.csv", needs: "read", request: (c) => ({ path: `${P(c)}/export.csv` }) },
 ];
 
-/** Page actions (form posts): the same rules hold for pages; the anonymous are sent to sign in. */
-const PAGE_ACTIONS: (Entry & { form?: Record<string, string> })[] = [
+/** Page actions (form posts): the same rules hold for pages; the anonymous and share links are sent to sign in. */
+const PAGE_ACTIONS: Entry[] = [
   { method: "POST", route: "/projects/:projectId/members", needs: "manage", request: (c) => ({ path: `/projects/${c.projectId}/members`, body: { intent: "invite", email: `${unique("p")}@example.test`, role: "viewer" } }) },
+  { method: "POST", route: "/projects/:projectId/members#add", needs: "manage", request: async (c) => ({ path: `/projects/${c.projectId}/members`, body: { intent: "add", email: await freshUser(), role: "viewer" } }) },
+  { method: "POST", route: "/projects/:projectId/members#revoke-invitation", needs: "manage", request: async (c, n) => ({ path: `/projects/${c.projectId}/members`, body: { intent: "revoke-invitation", invitationId: String(await fresh(c, "invitation", n)) } }) },
+  { method: "POST", route: "/projects/:projectId/members#create-share-link", needs: "manage", request: (c) => ({ path: `/projects/${c.projectId}/members`, body: { intent: "create-share-link", label: "page", snapshotId: String(c.snapshotId), expiresAt: "2099-12-31" } }) },
+  { method: "POST", route: "/projects/:projectId/members#revoke-share-link", needs: "manage", request: async (c, n) => ({ path: `/projects/${c.projectId}/members`, body: { intent: "revoke-share-link", shareLinkId: String(await fresh(c, "share-link", n)) } }) },
   { method: "POST", route: "/projects/:projectId/settings", needs: "manage", request: (c) => ({ path: `/projects/${c.projectId}/settings`, body: { name: unique("renamed"), description: "" } }) },
-  { method: "POST", route: "/projects/:projectId/snapshots", needs: "review", request: (c) => ({ path: `/projects/${c.projectId}/snapshots`, body: { statement: "page" } }) },
-  ...["levels", "species", "protocols", "pathways"].map((p) => ({
+  {
     method: "POST",
-    route: `/projects/:projectId/${p}`,
-    needs: "edit" as const,
-    allowed: "reached" as const,
-    request: (c: Ctx) => ({ path: `/projects/${c.projectId}/${p}`, body: { intent: "none" } }),
-  })),
+    route: "/projects/:projectId/settings#delete",
+    needs: "manage",
+    allowed: { status: 302, location: /^\/projects$/ },
+    request: async () => {
+      const { id } = await teamProject();
+      const name = (await api(`/api/v1/projects/${id}`, { token: tokens.owner })).body.project.name as string;
+      return { path: `/projects/${id}/settings`, body: { intent: "delete", confirmName: name } };
+    },
+  },
+  { method: "POST", route: "/projects/:projectId/snapshots", needs: "review", request: (c) => ({ path: `/projects/${c.projectId}/snapshots`, body: { statement: "page" } }) },
+  { method: "POST", route: "/projects/:projectId/levels", needs: "edit", request: (c, n) => ({ path: `/projects/${c.projectId}/levels`, body: { method: "M06-2X", basis: ["def2-SVP", "def2-TZVP", "cc-pVTZ", "6-31G*", "def2-QZVP", "aug-cc-pVDZ", "6-311G**"][n % 7]! } }) },
+  { method: "POST", route: "/projects/:projectId/species", needs: "edit", request: (c) => ({ path: `/projects/${c.projectId}/species`, body: { label: unique("page"), formula: "CH4" } }) },
+  { method: "POST", route: "/projects/:projectId/species/:speciesId", needs: "edit", request: async (c, n) => ({ path: `/projects/${c.projectId}/species/${await fresh(c, "species", n)}`, body: { intent: "add-conformer", label: "c1", geometry: "2\nH2\nH 0 0 0\nH 0 0 0.74\n" } }) },
+  { method: "POST", route: "/projects/:projectId/protocols", needs: "edit", request: (c) => ({ path: `/projects/${c.projectId}/protocols`, body: { intent: "create", name: unique("page"), energyLevel: "B3LYP/def2-TZVP", thermalLevel: "", thermalSource: "computed", temperature: "298.15", standardState: "1 atm", lowFrequencyTreatment: "none", lowFrequencyCutoff: "100", frequencyScale: "1", conformerTreatment: "lowest" } }) },
+  { method: "POST", route: "/projects/:projectId/protocols#default", needs: "edit", request: async (c, n) => ({ path: `/projects/${c.projectId}/protocols`, body: { intent: "default", protocolId: String(await fresh(c, "protocol", n)) } }) },
+  {
+    method: "POST",
+    route: "/projects/:projectId/pathways",
+    needs: "edit",
+    allowed: { status: 302, location: /^\/projects\/\d+\/pathways\/\d+$/ },
+    request: (c) => ({ path: `/projects/${c.projectId}/pathways`, body: { name: unique("page"), states: "a: H2O\nb: H2O" } }),
+  },
 ];
 
 const mayDo: Record<Entry["needs"], Role[]> = {
@@ -484,21 +517,37 @@ const mayDo: Record<Entry["needs"], Role[]> = {
   manage: ["owner"],
 };
 
-function expected(entry: Entry, role: Role, page: boolean): "allowed" | 401 | 403 | 404 | 302 {
-  if (mayDo[entry.needs].includes(role)) return "allowed";
+type Want = { status: number | "2xx" | "any"; location?: RegExp };
+
+function expected(entry: Entry, role: Role, page: boolean): Want {
+  if (mayDo[entry.needs].includes(role)) {
+    if (entry.allowed === "any") return { status: "any" };
+    return entry.allowed ?? { status: "2xx" };
+  }
   // A share token is no API token: to the API it is no credential (401), and pages send it to sign in.
-  if (role === "anonymous" || role === "share") return page ? 302 : 401;
-  if (entry.needs === "user") return 401;
-  if (role === "outsider") return 404;
-  return 403;
+  if (role === "anonymous" || role === "share") return page ? { status: 302, location: /^\/sign-in\b/ } : { status: 401 };
+  if (entry.needs === "user") return { status: 401 };
+  if (role === "outsider") return { status: 404 };
+  return { status: 403 };
 }
 
-async function send(entry: Entry, role: Role, ctx: Ctx, setup: Setup, page: boolean) {
+function answers(want: Want, got: { status: number; location: string | null }): boolean {
+  if (want.status === "any") return got.status < 500 && ![401, 403].includes(got.status);
+  if (want.status === "2xx") return got.status >= 200 && got.status < 300;
+  if (got.status !== want.status) return false;
+  return !want.location || want.location.test(got.location ?? "");
+}
+
+async function send(entry: Entry, role: Role, setup: Setup, page: boolean, ctx: Ctx) {
   const headers: Record<string, string> = {};
   if (role === "share") headers.Authorization = `Bearer ${ctx.shareToken}`;
   else if (role !== "anonymous") headers.Authorization = `Bearer ${tokens[role]}`;
   let body: BodyInit | undefined;
-  if (setup.body !== undefined) {
+  if (setup.file) {
+    const fd = new FormData();
+    fd.append("file", new Blob([setup.file.text], { type: setup.file.type ?? "application/octet-stream" }), setup.file.name);
+    body = fd;
+  } else if (setup.body !== undefined) {
     if (page) {
       headers["Content-Type"] = "application/x-www-form-urlencoded";
       body = new URLSearchParams(setup.body as Record<string, string>);
@@ -508,8 +557,8 @@ async function send(entry: Entry, role: Role, ctx: Ctx, setup: Setup, page: bool
     }
   }
   const res = await fetch(BASE_URL + setup.path, { method: entry.method, headers, body, redirect: "manual" });
-  await res.arrayBuffer();
-  return res.status;
+  const text = await res.text();
+  return { status: res.status, location: res.headers.get("location"), text };
 }
 
 describe("permission matrix", () => {
@@ -536,27 +585,36 @@ describe("permission matrix", () => {
   const cases = [...API_ROUTES.map((e) => ({ e, page: false })), ...PAGE_ACTIONS.map((e) => ({ e, page: true }))];
   for (const { e, page } of cases) {
     test(`${e.method} ${page ? e.route : `/api/v1/${e.route}`}: each role gets its answer`, async () => {
-      const answers: string[] = [];
+      const seen: string[] = [];
       const wrong: string[] = [];
       let n = 0;
       for (const role of ROLES) {
         const want = expected(e, role, page);
         const setup = await e.request(ctx, n++);
-        const status = await send(e, role, ctx, setup, page);
-        answers.push(`${role}:${status}`);
-        const ok =
-          want === "allowed"
-            ? e.allowed === "reached"
-              ? status < 500 && ![401, 403, 404].includes(status)
-              : e.allowed === "any"
-                ? status < 500 && ![401, 403].includes(status)
-                : status >= 200 && status < 300
-            : status === want;
-        if (!ok) wrong.push(`${role} got ${status}, expected ${want === "allowed" ? (e.allowed === "reached" ? "to be let through" : "2xx") : want}`);
+        const got = await send(e, role, setup, page, ctx);
+        seen.push(`${role}:${got.status}`);
+        if (!answers(want, got)) {
+          const wanted = `${want.status}${want.location ? ` to ${want.location}` : ""}`;
+          wrong.push(`${role} got ${got.status}${got.location ? ` to ${got.location}` : ""}, expected ${wanted}: ${got.text.slice(0, 200)}`);
+        }
       }
-      expect(wrong, answers.join(" ")).toEqual([]);
+      expect(wrong, seen.join(" ")).toEqual([]);
     });
   }
+
+  test("the page list names every project page that takes a form post", async () => {
+    const source = await readFile(path.resolve(import.meta.dirname, "../../app/routes.ts"), "utf8");
+    const layout = 'route("projects/:projectId", "routes/project-layout.tsx"';
+    const block = source.slice(source.indexOf(layout) + layout.length, source.indexOf('route("settings/tokens"'));
+    const withAction: string[] = [];
+    for (const m of block.matchAll(/(?:route\("([^"]+)",|index\()\s*"(routes\/[^"]+)"/g)) {
+      const file = await readFile(path.resolve(import.meta.dirname, "../../app", m[2]!), "utf8");
+      if (/export (async function|const) action\b/.test(file)) withAction.push(`/projects/:projectId${m[1] ? `/${m[1]}` : ""}`);
+    }
+    const listed = new Set(PAGE_ACTIONS.map((e) => e.route.split("#")[0]));
+    expect(withAction.filter((r) => !listed.has(r)), "project pages with an action not in the permission matrix").toEqual([]);
+    expect(withAction.length).toBeGreaterThan(5);
+  });
 
   test("no route under /share accepts a write", async () => {
     for (const sub of ["", "/ledger", `/pathways/${ctx.pathwayId}`, "/audit", "/export.xlsx"]) {
