@@ -4,7 +4,9 @@ import { CommentList } from "./comments";
 import { DISPLAY_ENERGY_UNITS, UNIT_LABEL } from "./energy-format";
 import { formatEnergyValue, reactionColumns, SAFETY_NOTE, type LedgerRow } from "./grids/reaction-columns";
 import { LazyGrid } from "./grids/LazyGrid";
+import { PathwayAside } from "./pathway-panels";
 import { profileStatesOf, renderProfileSvg } from "./profile-svg";
+import type { PathwayAnswer } from "~/services/snapshots.server";
 
 /**
  * Read-only views of the ledger, a pathway and the audit, shared by the share-link pages and the
@@ -99,48 +101,22 @@ export function LedgerTable({ rows, unit, temperatureK }: { rows: LedgerRow[]; u
   );
 }
 
-type PathwayStateView = { label: string; kind: "minimum" | "transition-state"; relativeE: number | null; relativeG: number | null };
-
-/** A pathway's energy profile (the app's own drawing) and its states, read-only. */
-export function PathwayProfile({
-  name,
-  unit,
-  states,
-  protocolName,
-}: {
-  name: string;
-  unit: string;
-  states: PathwayStateView[];
-  protocolName?: string | null;
-}) {
-  const { quantity, states: drawn } = profileStatesOf(states);
+/**
+ * A pathway's energy profile (the app's own drawing) beside its states, span and problems, read-only:
+ * the same drawing and panels as the pathway page.
+ */
+export function PathwayProfile({ answer }: { answer: PathwayAnswer }) {
+  const { quantity, states: drawn } = profileStatesOf(answer.states);
   const svg = useMemo(
-    () => renderProfileSvg(drawn, { unit: unit === "cm-1" ? "cm⁻¹" : unit, quantity, title: name, name: protocolName ?? undefined }),
-    [drawn, unit, quantity, name, protocolName],
+    () => renderProfileSvg(drawn, { unit: answer.unit, quantity, title: answer.pathway.name, name: answer.protocol?.name ?? undefined }),
+    [drawn, answer.unit, quantity, answer.pathway.name, answer.protocol?.name],
   );
   return (
-    <div className="space-y-3">
-      <div className="overflow-x-auto rounded-md border border-rule bg-white p-2" data-testid="pathway-diagram" dangerouslySetInnerHTML={{ __html: svg }} />
-      <table className="table">
-        <thead>
-          <tr>
-            <th>State</th>
-            <th>Kind</th>
-            <th className="text-right">ΔE ({unit})</th>
-            <th className="text-right">ΔG ({unit})</th>
-          </tr>
-        </thead>
-        <tbody>
-          {states.map((s, i) => (
-            <tr key={`${s.label}-${i}`}>
-              <td>{s.label}</td>
-              <td className="text-muted">{s.kind === "transition-state" ? "transition state" : "minimum"}</td>
-              <td className="num text-right">{formatEnergyValue(s.relativeE, unit)}</td>
-              <td className="num text-right">{formatEnergyValue(s.relativeG, unit)}</td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
+    <div className="grid gap-4 xl:grid-cols-[minmax(0,1fr)_380px]">
+      <section className="card self-start overflow-x-auto">
+        <div className="w-full" data-testid="pathway-diagram" dangerouslySetInnerHTML={{ __html: svg }} />
+      </section>
+      <PathwayAside answer={answer} />
     </div>
   );
 }

@@ -1,5 +1,6 @@
 import { Link } from "react-router";
 import type { ChangesSinceSignOff, SignOffStatus } from "~/services/snapshots.server";
+import { formatEnergyValue } from "./grids/reaction-columns";
 
 const day = (iso: string) => iso.slice(0, 10);
 const show = (v: unknown) => {
@@ -32,6 +33,17 @@ export function ChangesSinceSignOffList({ changes }: { changes: ChangesSinceSign
   if (!changes) return <p className="text-sm text-muted">The project has not been signed off yet.</p>;
   if (!changes.outdated) return <p className="text-sm text-ok">No change since snapshot #{changes.snapshot.id}.</p>;
   return (
+    <div className="space-y-3">
+      <ChangedInputs changes={changes.changes} />
+      <ChangedValues changes={changes.valueChanges} unit={changes.valueUnit} />
+    </div>
+  );
+}
+
+type Changes = NonNullable<ChangesSinceSignOff>;
+
+function ChangedInputs({ changes }: { changes: Changes["changes"] }) {
+  return (
     <table className="table" data-testid="changes-since-sign-off">
       <thead>
         <tr>
@@ -42,7 +54,7 @@ export function ChangesSinceSignOffList({ changes }: { changes: ChangesSinceSign
         </tr>
       </thead>
       <tbody>
-        {changes.changes.map((c) => (
+        {changes.map((c) => (
           <tr key={`${c.collection}-${c.id}-${c.change}`}>
             <td className="text-muted">{c.collection}</td>
             <td>{c.label}</td>
@@ -60,3 +72,33 @@ export function ChangesSinceSignOffList({ changes }: { changes: ChangesSinceSign
     </table>
   );
 }
+
+/** Computed reaction values that moved since the sign-off (each row under its own protocol). */
+function ChangedValues({ changes, unit }: { changes: Changes["valueChanges"]; unit: string }) {
+  if (!changes.length) return <p className="text-xs text-muted">No computed reaction value moved.</p>;
+  const show = (v: number | string | null) => (typeof v === "number" ? formatEnergyValue(v, unit) : (v ?? "—"));
+  return (
+    <table className="table" data-testid="values-since-sign-off">
+      <thead>
+        <tr>
+          <th>Reaction</th>
+          <th>Value</th>
+          <th className="text-right">At sign-off</th>
+          <th className="text-right">Now</th>
+        </tr>
+      </thead>
+      <tbody>
+        {changes.map((c) => (
+          <tr key={`${c.reactionId}-${c.quantity}`}>
+            <td>{c.reaction}</td>
+            <td>{QUANTITY_LABEL[c.quantity] ?? c.quantity}{c.quantity === "status" ? "" : ` (${unit})`}</td>
+            <td className="num text-right">{show(c.before)}</td>
+            <td className="num text-right">{show(c.after)}</td>
+          </tr>
+        ))}
+      </tbody>
+    </table>
+  );
+}
+
+const QUANTITY_LABEL: Record<string, string> = { deltaE: "ΔE", deltaEZPE: "Δ(E+ZPE)", deltaH: "ΔH", deltaG: "ΔG", barrierE: "ΔE‡", barrierG: "ΔG‡", status: "status" };

@@ -4,7 +4,7 @@ import { Link, useNavigate } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/project-pathway";
 import { apiFetch, describeApiError } from "~/components/api-client";
-import { formatEnergyValue, formatScientific, SAFETY_NOTE } from "~/components/grids/reaction-columns";
+import { PathwayAside } from "~/components/pathway-panels";
 import { profileStatesOf, renderProfileSvg } from "~/components/profile-svg";
 import { useProject } from "~/components/use-project";
 import { pathwayPage } from "~/services/pathways.server";
@@ -138,7 +138,7 @@ export default function PathwayPage({ loaderData }: Route.ComponentProps) {
       </section>
 
       <div className="grid gap-4 xl:grid-cols-[minmax(0,1fr)_380px]">
-        <section className="card overflow-x-auto">
+        <section className="card self-start overflow-x-auto">
           <div className="w-full" data-testid="profile" dangerouslySetInnerHTML={{ __html: svg }} />
           <div className="mt-2 flex flex-wrap gap-2">
             <a className="btn" href={svgHref} download={`${fileBase}.svg`} data-testid="download-svg">Download SVG</a>
@@ -151,71 +151,7 @@ export default function PathwayPage({ loaderData }: Route.ComponentProps) {
           {main.error ? <p className="field-error mt-2">{describeApiError(main.error)}</p> : null}
         </section>
 
-        <aside className="grid content-start gap-4">
-          <section className="card text-sm">
-            <table className="table" data-testid="state-table">
-              <thead>
-                <tr>
-                  <th>State</th>
-                  <th className="text-right">ΔE</th>
-                  <th className="text-right">ΔH ⚠</th>
-                  <th className="text-right">ΔG</th>
-                  <th className="text-right">barrier</th>
-                </tr>
-              </thead>
-              <tbody>
-                {answer.states.map((s) => (
-                  <tr key={s.label}>
-                    <td>{s.label}{s.kind === "transition-state" ? <span className="text-copper"> ‡</span> : null}</td>
-                    <td className="num text-right">{formatEnergyValue(s.relativeE, answer.unit)}</td>
-                    <td className="num text-right">{formatEnergyValue(s.relativeH, answer.unit)}</td>
-                    <td className="num text-right">{formatEnergyValue(s.relativeG, answer.unit)}</td>
-                    <td className="num text-right" title={s.barrier ? `against ${s.barrier.from} (${s.barrier.basis})` : undefined}>{s.barrier ? formatEnergyValue(s.barrier.value, answer.unit) : ""}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-            <p className="mt-1 text-xs text-muted">In {answer.unit}. Barriers against the lowest preceding state.</p>
-          </section>
-          {answer.pathway.cycle ? (
-            <section className="card text-sm" data-testid="span">
-              <h3 className="mb-1 font-bold">Energetic span</h3>
-              {answer.energeticSpan ? (
-                <>
-                  <dl className="grid grid-cols-2 gap-1">
-                    <dt className="text-muted">δE</dt><dd className="num">{formatEnergyValue(answer.energeticSpan.deltaE, answer.unit)} {answer.unit}</dd>
-                    <dt className="text-muted">TOF-determining TS</dt><dd>{answer.energeticSpan.tdts}</dd>
-                    <dt className="text-muted">TOF-determining intermediate</dt><dd>{answer.energeticSpan.tdi}</dd>
-                    <dt className="text-muted">TOF ⚠</dt><dd className="num">{formatScientific(answer.energeticSpan.tof)} s⁻¹</dd>
-                    <dt className="text-muted">ΔG of one turnover</dt><dd className="num">{formatEnergyValue(answer.energeticSpan.reactionEnergy, answer.unit)} {answer.unit}</dd>
-                  </dl>
-                  <p className="mt-2 text-xs text-muted">{answer.energeticSpan.basis}</p>
-                  {answer.degreeOfTofControl ? (
-                    <table className="table mt-2">
-                      <thead><tr><th>State</th><th className="text-right">degree of TOF control</th></tr></thead>
-                      <tbody>
-                        {Object.entries(answer.degreeOfTofControl).map(([k, v]) => (
-                          <tr key={k}><td>{k}</td><td className="num text-right">{v.toFixed(3)}</td></tr>
-                        ))}
-                      </tbody>
-                    </table>
-                  ) : null}
-                </>
-              ) : (
-                <p className="text-muted">Not computed: every state needs a free energy (see the problems).</p>
-              )}
-            </section>
-          ) : null}
-          <p className="text-xs text-muted">⚠ {SAFETY_NOTE}</p>
-          {answer.problems.length ? (
-            <section className="card text-sm">
-              <h3 className="mb-1 font-bold">Problems</h3>
-              <ul className="list-disc pl-5">
-                {answer.problems.map((p, i) => <li key={i} className={p.severity === "warning" ? "text-warn" : "text-bad"}>{p.message}</li>)}
-              </ul>
-            </section>
-          ) : null}
-        </aside>
+        <PathwayAside answer={answer} />
       </div>
     </div>
   );

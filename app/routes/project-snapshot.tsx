@@ -55,9 +55,9 @@ export default function SnapshotView({ loaderData, params }: Route.ComponentProp
         <LedgerTable rows={reactions.reactions as unknown as LedgerRow[]} unit={reactions.unit} temperatureK={reactions.protocol?.temperatureK ?? null} />
       </section>
       {pathways.map((p) => (
-        <section key={p.pathway.id} className="card">
-          <h2 className="mb-2 font-bold">{p.pathway.name}</h2>
-          <PathwayProfile name={p.pathway.name} unit={p.unit} states={p.states} protocolName={p.protocol?.name} />
+        <section key={p.pathway.id} className="space-y-2">
+          <h2 className="font-bold">{p.pathway.name}</h2>
+          <PathwayProfile answer={p} />
         </section>
       ))}
       <section className="space-y-2">

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import type { Route } from "./+types/share-pathway";
-import { PathwayProfile, SafetyNote, UnitLinks } from "~/components/readonly-views";
+import { PathwayProfile, UnitLinks } from "~/components/readonly-views";
 import { shareSource, viewPathway } from "~/services/project-view.server";
 import { requireShare } from "~/utils/guards.server";
 import { parseParams, parseSearchParams, positiveIntId } from "~/utils/http.server";
@@ -23,14 +23,7 @@ export default function SharePathway({ loaderData, params }: Route.ComponentProp
         <h2 className="font-bold">{p.pathway.name}</h2>
         <UnitLinks unit={p.unit} hrefFor={(u) => `${base}?unit=${encodeURIComponent(u)}`} />
       </div>
-      <PathwayProfile name={p.pathway.name} unit={p.unit} states={p.states} protocolName={p.protocol?.name} />
-      {p.energeticSpan ? (
-        <p className="text-sm">
-          Energetic span δE = <span className="num">{p.energeticSpan.deltaE.toFixed(2)}</span> {p.unit} (TDTS {p.energeticSpan.tdts}, TDI {p.energeticSpan.tdi});
-          TOF <span className="num">{p.energeticSpan.tof.toExponential(2)}</span> s⁻¹. {p.energeticSpan.basis}
-        </p>
-      ) : null}
-      <SafetyNote />
+      <PathwayProfile answer={p} />
     </section>
   );
 }

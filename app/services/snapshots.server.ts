@@ -288,19 +288,51 @@ export function inputsOf(content: SnapshotContent): SnapshotInputs {
   return { project, ...content.inputs };
 }
 
-/** The last sign-off and what changed in the live project since; null when it was never signed off. */
-export async function changesSinceSignOff(projectId: number) {
+/** The unit and the quantities in which computed values are compared with the last sign-off. */
+export const COMPARED_UNIT = "kcal/mol";
+const COMPARED_VALUES = ["deltaE", "deltaEZPE", "deltaH", "deltaG", "barrierE", "barrierG"] as const;
+
+export type ValueChange = { reactionId: number; reaction: string; quantity: string; before: number | string | null; after: number | string | null };
+
+/**
+ * Computed values of the reactions present in both answers that differ (each row under its own
+ * protocol): a changed energy shows up here as the ΔG it moved, not only as the edited input.
+ */
+export function diffValues(before: ReactionsAnswer, after: ReactionsAnswer): ValueChange[] {
+  const was = new Map(before.reactions.map((r) => [r.id, r]));
+  const out: ValueChange[] = [];
+  for (const now of after.reactions) {
+    const old = was.get(now.id);
+    if (!old) continue;
+    if (old.status !== now.status) out.push({ reactionId: now.id, reaction: now.equation, quantity: "status", before: old.status, after: now.status });
+    for (const q of COMPARED_VALUES) {
+      const a = (old.values as Record<string, number | null>)[q] ?? null;
+      const b = (now.values as Record<string, number | null>)[q] ?? null;
+      if (a !== b) out.push({ reactionId: now.id, reaction: now.equation, quantity: q, before: a, after: b });
+    }
+  }
+  return out;
+}
+
+/**
+ * The last sign-off and what changed in the live project since; null when it was never signed off.
+ * `values: false` skips recomputing the ledger (the banner and the audit need only the inputs).
+ */
+export async function changesSinceSignOff(projectId: number, options: { values?: boolean } = {}) {
   const last = await latestSnapshot(projectId);
   if (!last) return null;
   const changes = diffInputs(inputsOf(last.content), await readInputs(projectId));
+  const frozen = last.content.computed[OWN_PROTOCOLS]?.[COMPARED_UNIT]?.reactions;
+  // Values can only have moved when an input did; recomputing is skipped otherwise.
+  const valueChanges = options.values !== false && changes.length && frozen ? diffValues(frozen, await computeReactions(projectId, { unit: COMPARED_UNIT })) : [];
   const { content: _c, ...snapshot } = last;
-  return { snapshot, outdated: changes.length > 0, changes };
+  return { snapshot, outdated: changes.length > 0, changes, valueUnit: COMPARED_UNIT, valueChanges };
 }
 export type ChangesSinceSignOff = Awaited<ReturnType<typeof changesSinceSignOff>>;
 
 /** For the banner on project pages: the last sign-off and whether edits have outdated it. */
 export async function signOffStatus(projectId: number) {
-  const c = await changesSinceSignOff(projectId);
+  const c = await changesSinceSignOff(projectId, { values: false });
   if (!c) return null;
   return { snapshotId: c.snapshot.id, signedAt: c.snapshot.signedAt, signer: c.snapshot.signer, outdated: c.outdated, changeCount: c.changes.length };
 }

@@ -9,7 +9,7 @@ import { changesSinceSignOff, snapshotContentProviders, type SnapshotContent } f
 export const CHANGED_SINCE_SIGN_OFF = "changed_since_sign_off";
 
 auditExtraRules.push(async (ctx): Promise<Finding[]> => {
-  const since = await changesSinceSignOff(ctx.projectId);
+  const since = await changesSinceSignOff(ctx.projectId, { values: false });
   if (!since || !since.outdated) return [];
   const counts = { added: 0, removed: 0, changed: 0 };
   for (const c of since.changes) counts[c.change]++;

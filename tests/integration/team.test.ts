@@ -271,9 +271,25 @@ describe("sign-off and snapshots", () => {
         expect.objectContaining({ collection: "species", label: "H2O2", change: "added" }),
       ]),
     );
+    // No computed value moved yet (a note and a new species change no reaction).
+    expect(changes.valueChanges).toEqual([]);
+    // A changed energy shows as the reaction value it moved: 2 H2 + O2 -> 2 H2O at -76.4646 and then
+    // -76.4656 hartree for H2O (the invented energies above), ΔE = Σν·E, 1 hartree = 627.509 474 kcal/mol
+    // (CODATA 2018: 4.359 744 722 2071e-18 J × 6.022 140 76e23 / 4184).
+    const grid = await api(`/api/v1/projects/${id}/calculations/grid`, { token: tokens.editor, body: { cells: [{ species: "H2O", level: "B3LYP/def2-TZVP", electronicEnergy: "-76.4656" }] } });
+    expect(grid.status).toBe(200);
+    const moved = (await api(`/api/v1/projects/${id}/changes`, { token: tokens.viewer })).body.signOff;
+    expect(moved.valueUnit).toBe("kcal/mol");
+    const dE = moved.valueChanges.find((v: { quantity: string }) => v.quantity === "deltaE");
+    expect(dE.reaction).toBe("2 H2 + O2 -> 2 H2O");
+    const KCAL_PER_HARTREE = 627.5094740631;
+    expect(dE.before).toBeCloseTo((2 * -76.4646 - (2 * -1.1795 + -150.3711)) * KCAL_PER_HARTREE, 6);
+    expect(dE.after).toBeCloseTo((2 * -76.4656 - (2 * -1.1795 + -150.3711)) * KCAL_PER_HARTREE, 6);
     // The project pages carry the banner.
     const overview = await fetch(`${BASE_URL}/projects/${id}`, { headers: { Authorization: `Bearer ${tokens.viewer}` } });
-    expect(await overview.text()).toContain('data-outdated="1"');
+    const overviewHtml = await overview.text();
+    expect(overviewHtml).toContain('data-outdated="1"');
+    expect(overviewHtml).toContain('data-testid="values-since-sign-off"');
 
     // A new sign-off covers the edits again.
     await api(`/api/v1/projects/${id}/snapshots`, { token: tokens.auditor, body: {} });
