@@ -131,7 +131,7 @@ export async function gatherExportData(project: Project, user: Pick<User, "name"
         id: c.id, species: speciesLabel(c.speciesId), conformer: c.conformerId ? (conformerLabel.get(c.conformerId) ?? null) : null, level: levelLabel(c.levelId),
         electronicEnergy: c.electronicEnergyText ?? null, thermalTemperatureK: c.thermalTemperatureK === null || c.thermalTemperatureK === undefined ? null : Number(c.thermalTemperatureK),
         zpe: c.zpeHartree ?? null, enthalpyCorrection: c.enthalpyCorrectionHartree ?? null, gibbsCorrection: c.gibbsCorrectionHartree ?? null,
-        frequencyCount: list?.length ?? 0, imaginaryModes: list ? list.filter((x) => x < 0).length : null, converged: !!c.converged, source: c.sourceNote ?? "",
+        frequencyCount: list?.length ?? 0, frequencies: list ?? [], imaginaryModes: list ? list.filter((x) => x < 0).length : null, converged: !!c.converged, source: c.sourceNote ?? "",
       };
     }),
     speciesUnderProtocols,

@@ -199,73 +199,206 @@ describe("provenance files", () => {
 });
 
 describe("export: the Supporting Information workbook read back by a second reader", () => {
-  test("every value matches the ledger API", async () => {
+  test("every value of every sheet matches the ledger API", async () => {
     const p = await newProject();
-    const head = "Species,Formula,Kind,Level,Electronic energy (hartree),Thermal temperature (K),ZPE (hartree),Enthalpy correction (hartree),Gibbs correction (hartree)";
+    const head =
+      "Species,Formula,Kind,Level,Electronic energy (hartree),Frequencies (cm-1),Thermal temperature (K),ZPE (hartree),Enthalpy correction (hartree),Gibbs correction (hartree),Converged,Source note";
     const csv = [
       head,
-      "HCN,CHN,minimum,B3LYP-D3(BJ)/def2-TZVP,-93.4461027381,298.15,0.015721,0.019026,-0.004911",
-      "MeO-styrene,C9H10O,minimum,B3LYP-D3(BJ)/def2-TZVP,-424.8812630544,298.15,0.164832,0.175203,0.127115",
-      "TS-add,C10H11NO,transition state,B3LYP-D3(BJ)/def2-TZVP,-518.2987713065,298.15,0.181113,0.193457,0.139874",
-      "Nitrile,C10H11NO,minimum,B3LYP-D3(BJ)/def2-TZVP,-518.3571209954,298.15,0.184204,0.196122,0.144410",
+      "HCN,CHN,minimum,B3LYP-D3(BJ)/def2-TZVP,-93.4461027381,727.1 727.1 2207.9 3446.2,298.15,0.015721,0.019026,-0.004911,yes,job 1",
+      "MeO-styrene,C9H10O,minimum,B3LYP-D3(BJ)/def2-TZVP,-424.8812630544,,298.15,0.164832,0.175203,0.127115,yes,job 2",
+      "TS-add,C10H11NO,transition state,B3LYP-D3(BJ)/def2-TZVP,-518.2987713065,-412.3 48.2 61.7,298.15,0.181113,0.193457,0.139874,no,job 3",
+      "Nitrile,C10H11NO,minimum,B3LYP-D3(BJ)/def2-TZVP,-518.3571209954,,298.15,0.184204,0.196122,0.144410,yes,job 4",
     ].join("\n");
     expect((await upload(`/api/v1/projects/${p.id}/imports`, p.token, "si.csv", csv)).status).toBe(201);
     const xyz = "3\nspecies=HCN\nC 0.0 0.0 0.0\nN 0.0 0.0 1.157\nH 0.0 0.0 -1.066\n";
     expect((await upload(`/api/v1/projects/${p.id}/imports`, p.token, "hcn.xyz", xyz)).status).toBe(201);
-    const proto = await api(`/api/v1/projects/${p.id}/protocols`, { token: p.token, body: { name: "stored corrections", energyLevel: "B3LYP-D3(BJ)/def2-TZVP", thermalSource: "stored" } });
-    expect(proto.status).toBe(201);
+    const protocols = [
+      { name: "stored corrections", energyLevel: "B3LYP-D3(BJ)/def2-TZVP", thermalSource: "stored" },
+      { name: "stored, 1 M", energyLevel: "B3LYP-D3(BJ)/def2-TZVP", thermalSource: "stored", standardState: "1 M" },
+    ];
+    for (const body of protocols) expect((await api(`/api/v1/projects/${p.id}/protocols`, { token: p.token, body })).status).toBe(201);
     const rx = await api(`/api/v1/projects/${p.id}/reactions`, { token: p.token, body: { equation: "HCN + MeO-styrene -> Nitrile", transitionState: "TS-add" } });
     expect(rx.status).toBe(201);
+    const pw = await api(`/api/v1/projects/${p.id}/pathways`, {
+      token: p.token,
+      body: {
+        name: "addition",
+        states: [
+          { label: "start", terms: [{ species: "HCN", coefficient: 1 }, { species: "MeO-styrene", coefficient: 1 }] },
+          { label: "TS", terms: [{ species: "TS-add", coefficient: 1 }] },
+          { label: "product", terms: [{ species: "Nitrile", coefficient: 1 }] },
+        ],
+      },
+    });
+    expect(pw.status).toBe(201);
 
-    const ledger = await api(`/api/v1/projects/${p.id}/reactions?unit=kJ/mol`, { token: p.token });
-    const calcs = (await api(`/api/v1/projects/${p.id}/calculations`, { token: p.token })).body.calculations;
+    const get = async (path: string) => (await api(`/api/v1/projects/${p.id}${path}`, { token: p.token })).body;
+    const { species, calculations: calcs, levels } = await ledgerState(p.id, p.token);
+    const protocolList = (await get("/protocols")).protocols;
+    const ledger = await get("/reactions?unit=kJ/mol");
+    const pathway = await get(`/pathways/${pw.body.pathway.id}?unit=kJ/mol`);
+    const audit = await get("/audit");
+    const project = (await get("")).project ?? (await api("/api/v1/projects", { token: p.token })).body.projects.find((x: any) => x.id === p.id);
+
     const file = await download(`/api/v1/projects/${p.id}/export.xlsx?unit=kJ/mol`, p.token);
     expect(file.status).toBe(200);
-    const wb = XLSX.read(file.bytes, { type: "array" });
+    const wb = XLSX.read(file.bytes, { type: "array", cellNF: true, cellStyles: true });
     expect(wb.SheetNames).toEqual(["Cover", "Levels", "Protocols", "Species", "Calculations", "Species by protocol", "Reactions", "Pathways", "Audit", "Coordinates"]);
     const rows = (name: string) => XLSX.utils.sheet_to_json<Record<string, unknown>>(wb.Sheets[name]!, { defval: null });
+    const opt = (v: unknown) => (v === null || v === undefined || v === "" ? null : v);
 
-    const cover = XLSX.utils.sheet_to_json<unknown[]>(wb.Sheets.Cover!, { header: 1 });
-    expect(cover.some((r) => r[0] === "Physical constants" && r[1] === "CODATA 2018")).toBe(true);
-    expect(cover.some((r) => r[0] === "State" && String(r[1]).startsWith("Live state"))).toBe(true);
+    // Cover: who, when, what state, which constants.
+    const cover = new Map(XLSX.utils.sheet_to_json<unknown[]>(wb.Sheets.Cover!, { header: 1 }).map((r) => [r[0], r[1]]));
+    expect(cover.get("Project")).toBe(project.name);
+    expect(String(cover.get("Exported by"))).toContain(DEMO.chemist);
+    expect(Math.abs(Date.parse(String(cover.get("Exported at (UTC)"))) - Date.now())).toBeLessThan(10 * 60 * 1000);
+    expect(String(cover.get("State"))).toMatch(/^Live state/);
+    expect(cover.get("Unit of computed energies")).toBe("kJ/mol");
+    expect(cover.get("Physical constants")).toBe("CODATA 2018");
+    expect(cover.has("Conventions")).toBe(true);
 
+    // Levels and protocols.
+    const levelSheet = rows("Levels");
+    expect(levelSheet).toHaveLength(levels.length);
+    for (const l of levels) {
+      const r = levelSheet.find((x) => x["Level id"] === l.id)!;
+      expect([r.Level, r["Canonical key"], r.Method, r["Basis set"], opt(r.Dispersion), opt(r["Solvation model"]), opt(r.Solvent)]).toEqual([
+        l.name, l.key, l.method, l.basis, l.dispersion, l.solvation?.model ?? null, l.solvation?.solvent ?? null,
+      ]);
+    }
+    const protocolSheet = rows("Protocols");
+    expect(protocolSheet).toHaveLength(protocolList.length);
+    for (const q of protocolList) {
+      const r = protocolSheet.find((x) => x["Protocol id"] === q.id)!;
+      expect([r.Protocol, r.Default === "yes", r["Energy level"], r["Thermal level"], r["Thermal corrections"], r["Temperature (K)"], r["Standard state"], r["Low-frequency treatment"], r["Low-frequency cutoff (cm-1)"], r["Frequency scale factor"], r.Conformers]).toEqual([
+        q.name, q.isDefault, q.energyLevel.name, q.thermalLevel.name, q.thermalSource, q.temperature, q.standardState, q.lowFrequency.treatment, q.lowFrequency.cutoff, q.frequencyScale, q.conformerTreatment,
+      ]);
+    }
+
+    // Species and every stored value of every calculation.
+    const speciesSheet = rows("Species");
+    expect(speciesSheet.map((r) => r.Species).sort()).toEqual(species.map((s: any) => s.label).sort());
+    for (const s of species) {
+      const r = speciesSheet.find((x) => x.Species === s.label)!;
+      expect([r.Formula, opt(r.SMILES), r.Charge, r.Multiplicity, r.Kind, r["Symmetry number"]]).toEqual([s.formula, s.smiles, s.charge, s.multiplicity, s.kind, s.symmetryNumber]);
+    }
     const calcSheet = rows("Calculations");
     expect(calcSheet).toHaveLength(calcs.length);
     for (const c of calcs) {
       const r = calcSheet.find((x) => x["Calculation id"] === c.id)!;
+      expect(r.Species).toBe(c.species.label);
+      expect(opt(r.Conformer)).toBe(c.conformer?.label ?? null);
+      expect(r.Level).toBe(c.level.name);
       expect(r["Electronic energy as stored (hartree, text)"]).toBe(c.electronicEnergy);
       expect(typeof r["Electronic energy (hartree)"]).toBe("number");
       expect(r["Electronic energy (hartree)"]).toBe(Number(c.electronicEnergy));
+      expect(r["Thermal temperature (K)"]).toBe(c.thermal.temperature);
       expect(r["ZPE (hartree)"]).toBe(Number(c.thermal.zpe));
+      expect(r["Enthalpy correction (hartree)"]).toBe(Number(c.thermal.enthalpyCorrection));
       expect(r["Gibbs correction (hartree)"]).toBe(Number(c.thermal.gibbsCorrection));
+      expect(r["Frequencies (count)"]).toBe(c.frequencies?.length ?? 0);
+      expect(opt(r["Frequencies (cm-1, as stored; imaginary negative)"])).toBe(c.frequencies?.length ? c.frequencies.join(" ") : null);
+      expect(opt(r["Imaginary modes"])).toBe(c.frequencies ? c.imaginaryModes : null);
+      expect(r.Converged).toBe(c.converged ? "yes" : "no");
+      expect(r["Source note"]).toBe(c.source);
     }
 
+    // Each species under EACH protocol, against the reaction breakdown of that protocol (all four species are in the reaction).
+    const byProtocol = rows("Species by protocol");
+    expect(byProtocol).toHaveLength(protocolList.length * species.length);
+    for (const q of protocolList) {
+      const breakdown = await get(`/reactions/${rx.body.reaction.id}/breakdown?protocol=${q.id}`);
+      expect(breakdown.terms).toHaveLength(species.length);
+      for (const t of breakdown.terms) {
+        const r = byProtocol.find((x) => x.Protocol === q.name && x.Species === t.species.label)!;
+        const m = t.members[0];
+        expect(r["Thermal corrections"]).toBe(m.thermalSource);
+        expect(r["ZPE (hartree)"]).toBe(m.zpeHartree);
+        expect(r["Enthalpy correction (hartree)"]).toBe(m.enthalpyCorrectionHartree);
+        expect(r["Gibbs correction incl. standard state (hartree)"]).toBeCloseTo(m.gibbsCorrectionHartree + (m.standardStateCorrectionHartree ?? 0), 12);
+        for (const [k, heading] of [["E", "E (hartree)"], ["EZPE", "E + ZPE (hartree)"], ["H", "H (hartree)"], ["G", "G (hartree)"]] as const) {
+          expect(r[heading], `${q.name} ${t.species.label} ${k}`).toBe(Number(t.absoluteHartree[k]));
+        }
+        expect(r["G as computed (hartree, text)"]).toBe(t.absoluteHartree.G);
+      }
+    }
+
+    // Reactions in the chosen unit, the unit in every heading.
     const reactionSheet = rows("Reactions");
-    expect(reactionSheet).toHaveLength(ledger.body.reactions.length);
+    expect(reactionSheet).toHaveLength(ledger.reactions.length);
     const keys: [string, string][] = [
       ["deltaE", "ΔE (kJ/mol)"], ["deltaEZPE", "ΔE+ZPE (kJ/mol)"], ["deltaH", "ΔH (kJ/mol)"], ["deltaG", "ΔG (kJ/mol)"],
-      ["barrierE", "ΔE‡ (kJ/mol)"], ["barrierG", "ΔG‡ (kJ/mol)"], ["rateConstant", "k (Eyring, from ΔG‡)"], ["equilibriumConstant", "K (from ΔG, dimensionless)"],
+      ["barrierE", "ΔE‡ (kJ/mol)"], ["barrierG", "ΔG‡ (kJ/mol)"], ["rateConstant", "k (Eyring, from ΔG‡; unit in the next column)"], ["equilibriumConstant", "K (from ΔG, dimensionless)"],
     ];
-    for (const r of ledger.body.reactions) {
+    for (const r of ledger.reactions) {
       const x = reactionSheet.find((y) => y["Reaction id"] === r.id)!;
       expect(x.Equation).toBe(r.equation);
       expect(x.Status).toBe(r.status);
+      expect(opt(x["Transition state"])).toBe(r.transitionState);
+      expect(x["Temperature (K)"]).toBe(r.temperatureK ?? ledger.protocol.temperatureK);
+      expect(x["Unit of k"]).toBe(r.rateConstantUnit);
+      expect(opt(x.Problems)).toBe(r.problems.length ? r.problems.map((q: any) => q.message).join("; ") : null);
       for (const [k, heading] of keys) {
         expect(r.values[k], k).not.toBeNull();
         expect(x[heading], heading).toBe(r.values[k]);
       }
     }
 
+    // Pathways, state by state.
+    const pathwaySheet = rows("Pathways").filter((r) => r.Pathway === "addition");
+    expect(pathwaySheet.map((r) => r.State)).toEqual(pathway.states.map((s: any) => s.label));
+    pathway.states.forEach((s: any, i: number) => {
+      const r = pathwaySheet[i]!;
+      expect([r.Position, r.Kind, r["Relative E (kJ/mol)"], r["Relative E+ZPE (kJ/mol)"], r["Relative H (kJ/mol)"], r["Relative G (kJ/mol)"]]).toEqual([
+        i + 1, s.kind, s.relativeE, s.relativeEZPE, s.relativeH, s.relativeG,
+      ]);
+    });
+
+    // Audit findings: every one, word for word.
+    const auditSheet = rows("Audit");
+    expect(auditSheet).toHaveLength(audit.findings.length);
+    expect(audit.findings.length).toBeGreaterThan(0); // TS-add is marked not converged
+    for (const f of audit.findings) {
+      expect(auditSheet.some((r) => r.Severity === f.severity && r.Rule === f.code && r.Object === `${f.object.type} ${f.object.label}` && r.Finding === f.message), f.message).toBe(true);
+    }
+
+    // Coordinates in the SI layout: label, charge, multiplicity, energy, then the block; every atom as stored.
     const coords = XLSX.utils.sheet_to_json<unknown[]>(wb.Sheets.Coordinates!, { header: 1, defval: null });
-    const at = coords.findIndex((r) => r[0] === "HCN");
-    expect(coords[at + 1]).toEqual(["Charge", 0, null, null, null]);
-    expect(coords[at + 3]![1]).toBe(Number(calcs.find((c: any) => c.species.label === "HCN").electronicEnergy));
-    expect(coords[at + 5]).toEqual(["C", 0, 0, 0, null]);
-    expect(coords[at + 6]![3]).toBe(1.157);
+    const withGeometry = [];
+    for (const s of species) {
+      const detail = (await get(`/species/${s.id}`)).species;
+      if (detail.geometry) withGeometry.push({ s, atoms: detail.geometry.data.trim().split("\n").slice(2).map((l: string) => l.trim().split(/\s+/)) });
+    }
+    expect(withGeometry.map((g) => g.s.label)).toEqual(["HCN"]);
+    for (const { s, atoms } of withGeometry) {
+      const at = coords.findIndex((r) => r[0] === s.label);
+      expect(coords[at + 1]!.slice(0, 2)).toEqual(["Charge", s.charge]);
+      expect(coords[at + 2]!.slice(0, 2)).toEqual(["Multiplicity", s.multiplicity]);
+      const calc = calcs.find((c: any) => c.species.id === s.id);
+      expect(coords[at + 3]!.slice(0, 2)).toEqual(["Electronic energy (hartree)", Number(calc.electronicEnergy)]);
+      expect(coords[at + 3]![4]).toBe(calc.level.name);
+      expect(coords[at + 4]!.slice(0, 4)).toEqual(["Atom", "x (Å)", "y (Å)", "z (Å)"]);
+      atoms.forEach((a: string[], i: number) => expect(coords[at + 5 + i]!.slice(0, 4)).toEqual([a[0], Number(a[1]), Number(a[2]), Number(a[3])]));
+    }
+
+    // Numbers are numbers with number formats; whole numbers look whole; headings frozen; columns sized.
+    const cell = (sheet: string, ref: string) => wb.Sheets[sheet]![ref]!;
+    expect(cell("Calculations", "E2")).toMatchObject({ t: "n", z: "0.000000000000" });
+    expect(cell("Reactions", "F2")).toMatchObject({ t: "n", z: "0.00" });
+    const chargeRow = coords.findIndex((r) => r[0] === "Charge") + 1;
+    expect(cell("Coordinates", `B${chargeRow}`)).toMatchObject({ t: "n", z: "0" });
+    expect(cell("Coordinates", `B${chargeRow + 4}`)).toMatchObject({ t: "n", z: "0.000000" });
+    const zip = XLSX.CFB.read(Buffer.from(file.bytes), { type: "buffer" });
+    wb.SheetNames.forEach((name, i) => {
+      const xml = Buffer.from(XLSX.CFB.find(zip, `/xl/worksheets/sheet${i + 1}.xml`)!.content as Uint8Array).toString("utf8");
+      if (name !== "Coordinates") expect(xml, name).toMatch(/<pane [^>]*ySplit="1"[^>]*state="frozen"/);
+      expect((wb.Sheets[name]!["!cols"] ?? []).every((c) => c && (c.wch ?? c.width ?? 0) >= 6), name).toBe(true);
+    });
 
     const csvOut = await download(`/api/v1/projects/${p.id}/export.csv?unit=kJ/mol`, p.token);
     const text = new TextDecoder().decode(csvOut.bytes);
-    expect(text).toContain("-518.3571209954");
+    for (const c of calcs) expect(text).toContain(`calculation,${c.id},${c.species.label},,${c.level.name},${c.electronicEnergy},`);
     expect(text).toContain("ΔG‡ (kJ/mol)");
   });
 });

@@ -25,6 +25,8 @@ export interface WorkbookData {
   calculations: {
     id: number; species: string; conformer: string | null; level: string; electronicEnergy: string | null; thermalTemperatureK: number | null;
     zpe: string | null; enthalpyCorrection: string | null; gibbsCorrection: string | null; frequencyCount: number; imaginaryModes: number | null;
+    /** Stored harmonic wavenumbers in cm-1, in stored order (empty when none). */
+    frequencies: number[];
     converged: boolean; source: string;
   }[];
   /** Each species under each protocol: thermal corrections and absolute E, E+ZPE, H, G in hartree (decimal text). */

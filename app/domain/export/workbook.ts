@@ -127,6 +127,7 @@ async function writeAll(wb: ExcelJS.stream.xlsx.WorkbookWriter, d: WorkbookData)
     { header: "Gibbs correction (hartree)", key: "g", width: 16, numFmt: SMALL_FMT },
     { header: "Frequencies (count)", key: "nf", width: 12, numFmt: "0" },
     { header: "Imaginary modes", key: "ni", width: 12, numFmt: "0" },
+    { header: "Frequencies (cm-1, as stored; imaginary negative)", key: "freqs", width: 60 },
     { header: "Converged", key: "converged", width: 10 },
     { header: "Source note", key: "source", width: 40 },
   ]);
@@ -134,6 +135,7 @@ async function writeAll(wb: ExcelJS.stream.xlsx.WorkbookWriter, d: WorkbookData)
     ca.addRow({
       id: c.id, species: c.species, conformer: c.conformer ?? "", level: c.level, e: num(c.electronicEnergy), eText: c.electronicEnergy ?? "",
       t: c.thermalTemperatureK, zpe: num(c.zpe), h: num(c.enthalpyCorrection), g: num(c.gibbsCorrection), nf: c.frequencyCount, ni: c.imaginaryModes,
+      freqs: c.frequencies.join(" "),
       converged: c.converged ? "yes" : "no", source: c.source,
     }).commit();
   }
@@ -171,7 +173,7 @@ async function writeAll(wb: ExcelJS.stream.xlsx.WorkbookWriter, d: WorkbookData)
     { header: `ΔE‡ (${u})`, key: "barrierE", width: 12, numFmt: REL_FMT },
     { header: `ΔG‡ (${u})`, key: "barrierG", width: 12, numFmt: REL_FMT },
     { header: "Temperature (K)", key: "T", width: 14, numFmt: "0.00" },
-    { header: "k (Eyring, from ΔG‡)", key: "k", width: 16, numFmt: SCI_FMT },
+    { header: "k (Eyring, from ΔG‡; unit in the next column)", key: "k", width: 16, numFmt: SCI_FMT },
     { header: "Unit of k", key: "kUnit", width: 30 },
     { header: "K (from ΔG, dimensionless)", key: "K", width: 18, numFmt: SCI_FMT },
     { header: "Problems", key: "problems", width: 80 },
@@ -230,8 +232,12 @@ async function writeAll(wb: ExcelJS.stream.xlsx.WorkbookWriter, d: WorkbookData)
     const title = co.addRow([g.conformer ? `${g.label} (conformer ${g.conformer})` : g.label]);
     title.font = { bold: true };
     title.commit();
-    co.addRow(["Charge", g.charge]).commit();
-    co.addRow(["Multiplicity", g.multiplicity]).commit();
+    // Whole numbers: the column's coordinate format would show a charge of 0 as 0.000000.
+    for (const [k, v] of [["Charge", g.charge], ["Multiplicity", g.multiplicity]] as const) {
+      const r = co.addRow([k, v]);
+      r.getCell(2).numFmt = "0";
+      r.commit();
+    }
     const er = co.addRow(["Electronic energy (hartree)", num(g.energyHartree), null, null, g.energyLevel ?? ""]);
     er.getCell(2).numFmt = HARTREE_FMT;
     er.commit();
