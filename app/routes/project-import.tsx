@@ -43,6 +43,12 @@ async function send(url: string, file: File): Promise<{ ok: boolean; status: num
   return { ok: res.ok, status: res.status, body };
 }
 
+/** Objects the commit would write: new or updated species, levels, conformers and calculations. */
+function changeCount(report: ImportReport): number {
+  const s = report.summary;
+  return s.species.created + s.species.updated + s.levels.created + s.conformers.created + s.conformers.updated + s.calculations.created + s.calculations.updated;
+}
+
 function Summary({ report }: { report: ImportReport }) {
   const s = report.summary;
   return (
@@ -163,6 +169,13 @@ export default function ImportPage({ loaderData }: Route.ComponentProps) {
           <div className="space-y-2" role="alert">
             <p className="font-medium text-bad" data-testid="import-refused">{step.message}. Fix these and upload the file again:</p>
             <Problems problems={step.problems} />
+            {step.report && step.report.items.length ? (
+              <>
+                <p className="text-sm">What the rows without problems would change, and the conflicts with stored values:</p>
+                <Summary report={step.report} />
+                <Items report={step.report} />
+              </>
+            ) : null}
           </div>
         ) : null}
         {step.kind === "preview" ? (
@@ -175,8 +188,8 @@ export default function ImportPage({ loaderData }: Route.ComponentProps) {
               </p>
             ) : null}
             <Items report={step.report} />
-            <button type="button" className="btn btn-primary" onClick={() => void run(false)} data-testid="import-commit-button">
-              Store these {step.report.summary.calculations.created + step.report.summary.calculations.updated} changes
+            <button type="button" className="btn btn-primary" disabled={!changeCount(step.report)} onClick={() => void run(false)} data-testid="import-commit-button">
+              {changeCount(step.report) ? `Store these ${changeCount(step.report)} changes` : "Nothing to store: every row matches the ledger"}
             </button>
           </div>
         ) : null}
