@@ -76,6 +76,45 @@ describe("import: the template the app offers", () => {
   });
 });
 
+describe("import: the dry run says what would be created, updated or left alone, and the conflicts", () => {
+  const head = "Species,Formula,Level,Electronic energy (hartree),Thermal temperature (K),ZPE (hartree),Enthalpy correction (hartree),Gibbs correction (hartree)";
+  let p: { id: number; token: string };
+  beforeAll(async () => {
+    p = await newProject();
+    const seed = `Species,Formula,Level,Electronic energy (hartree)\nHCN,CHN,B3LYP/def2-SVP,-93.3935\nH2O,H2O,B3LYP/def2-SVP,-76.3898\n`;
+    expect((await upload(`/api/v1/projects/${p.id}/imports`, p.token, "seed.csv", seed)).status).toBe(201);
+  });
+
+  test("filling missing values is an update, an identical row is left alone, a new label creates", async () => {
+    const before = await ledgerState(p.id, p.token);
+    const text = `${head}\nHCN,CHN,B3LYP/def2-SVP,-93.3935,298.15,0.0157,0.0190,-0.0049\nH2O,H2O,B3LYP/def2-SVP,-76.38980,,,,\nNH3,H3N,B3LYP/def2-SVP,-56.5478,,,,\n`;
+    const r = await upload(`/api/v1/projects/${p.id}/imports?dryRun=1`, p.token, "fill.csv", text);
+    expect(r.status).toBe(200);
+    expect(r.body.import).toMatchObject({ dryRun: true, committed: false });
+    expect(r.body.import.items.map((i: any) => [i.row, i.species, i.action])).toEqual([
+      [2, "HCN", "update"],
+      [3, "H2O", "unchanged"],
+      [4, "NH3", "create"],
+    ]);
+    expect(r.body.import.species.find((s: any) => s.label === "NH3")).toMatchObject({ action: "create", formula: "H3N" });
+    expect(await ledgerState(p.id, p.token)).toEqual(before);
+  });
+
+  test("a conflict with a stored value is refused, and the report still lists it beside what would be created", async () => {
+    const before = await ledgerState(p.id, p.token);
+    const text = `${head}\nHCN,CHN,B3LYP/def2-SVP,-93.3936,,,,\nNH3,H3N,B3LYP/def2-SVP,-56.5478,,,,\n`;
+    const r = await upload(`/api/v1/projects/${p.id}/imports?dryRun=1`, p.token, "conflict.csv", text);
+    expect(r.status).toBe(422);
+    expect(r.body.error.details).toEqual([expect.objectContaining({ row: 2, column: "Electronic energy (hartree)" })]);
+    expect(r.body.error.details[0].message).toMatch(/Conflicting value.*-93\.3935.*-93\.3936/);
+    expect(r.body.error.report.items.map((i: any) => [i.row, i.action])).toEqual([
+      [2, "conflict"],
+      [3, "create"],
+    ]);
+    expect(await ledgerState(p.id, p.token)).toEqual(before);
+  });
+});
+
 describe("import: QCSchema and XYZ", () => {
   test("a QCSchema result (geometry in bohr) lands on the level typed as B3LYP + D3(BJ), with its geometry in Å", async () => {
     const p = await newProject();
@@ -134,7 +173,12 @@ describe("import: broken files are refused whole, with row and column, and chang
     expect(r.status).toBe(201);
   });
 
-  const cases: [string, string, number, string, RegExp][] = [
+  const qcschemaWithoutBasis = JSON.stringify({
+    schema_name: "qcschema_output", schema_version: 1, driver: "energy", model: { method: "B3LYP" },
+    molecule: { schema_name: "qcschema_molecule", schema_version: 2, symbols: ["H", "H"], geometry: [0, 0, 0, 0, 0, 1.4] },
+    return_result: -1.17, properties: { return_energy: -1.17 }, success: true, provenance: { creator: "example" },
+  });
+  const cases: [string, string, number, string, RegExp, string?][] = [
     ["a non-number", `${head}\n${good.replace("HCN", "A").replace("CHN", "H2")}\nB,H2,0,1,B3LYP/def2-SVP,about -1.1\n`, 3, "Electronic energy (hartree)", /not a number/],
     ["a positive electronic energy", `${head}\nB,H2,0,1,B3LYP/def2-SVP,1.17\n`, 2, "Electronic energy (hartree)", /negative/],
     ["an implausible energy for the formula (kcal/mol in a hartree column)", `${head}\nB,H2,0,1,B3LYP/def2-SVP,-734.2\n`, 2, "Electronic energy (hartree)", /Implausible/],
@@ -143,11 +187,15 @@ describe("import: broken files are refused whole, with row and column, and chang
     ["a conflicting value for a stored calculation", `${head}\nHCN,CHN,0,1,B3LYP-D3(BJ)/def2-TZVP,-93.4461999999\n`, 2, "Electronic energy (hartree)", /Conflicting value/],
     ["an impossible multiplicity", `${head}\nB,H2,0,2,B3LYP/def2-SVP,-1.17\n`, 2, "Multiplicity", /impossible/],
     ["a missing level", `${head}\nB,H2,0,1,,-1.17\n`, 2, "Level", /Missing level/],
+    ["a decimal comma in a comma-separated file", `${head}\nB,H2,0,1,B3LYP/def2-SVP,"-1,17"\n`, 2, "Electronic energy (hartree)", /decimal comma/],
+    ["an energy a spreadsheet shortened in scientific notation", `${head}\nB,H2,0,1,B3LYP/def2-SVP,-1.17E+00\n`, 2, "Electronic energy (hartree)", /significant digits/],
+    ["a QCSchema result without a basis", qcschemaWithoutBasis, 1, "model.basis", /Missing level/, "h2.json"],
+    ["an XYZ frame with a coordinate that is not a number", "3\nwater\nO 0 0 0\nH 0 zero 0\nH 0 1 0\n", 4, "atoms", /coordinates must be numbers/, "water.xyz"],
   ];
 
-  test.each(cases)("%s", async (_name, text, row, column, message) => {
+  test.each(cases)("%s", async (_name, text, row, column, message, name = "broken.csv") => {
     const before = await ledgerState(p.id, p.token);
-    const r = await upload(`/api/v1/projects/${p.id}/imports`, p.token, "broken.csv", text, "text/csv");
+    const r = await upload(`/api/v1/projects/${p.id}/imports`, p.token, name, text);
     expect(r.status).toBe(422);
     expect(r.body.error.code).toBe("import_refused");
     const hit = r.body.error.details.find((d: any) => d.row === row && d.column === column);
