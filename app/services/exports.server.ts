@@ -88,8 +88,23 @@ export async function gatherExportData(project: Project, user: Pick<User, "name"
 
   // The geometry block's energy: the species' calculation at the default protocol's energy level, if any.
   const defaultProtocol = data.protocols.find((p) => p.id === data.defaultProtocolId) ?? data.protocols[0] ?? null;
+  // Indexed once: a project of thousands of species must not scan every calculation per geometry.
+  const calcsBy = new Map<string, typeof calcs>();
+  for (const c of calcs) {
+    if (!c.electronicEnergyText) continue;
+    const key = `${c.speciesId}|${c.conformerId ?? 0}`;
+    const list = calcsBy.get(key);
+    if (list) list.push(c);
+    else calcsBy.set(key, [c]);
+  }
+  const conformersBy = new Map<number, typeof conformers>();
+  for (const c of conformers) {
+    const list = conformersBy.get(c.speciesId);
+    if (list) list.push(c);
+    else conformersBy.set(c.speciesId, [c]);
+  }
   const energyFor = (speciesId: number, conformerId: number | null) => {
-    const list = calcs.filter((c) => c.speciesId === speciesId && (c.conformerId ?? null) === conformerId && c.electronicEnergyText);
+    const list = calcsBy.get(`${speciesId}|${conformerId ?? 0}`) ?? [];
     const at = defaultProtocol ? list.filter((c) => c.levelId === defaultProtocol.energyLevelId) : [];
     const c = (at.length ? at : list)[(at.length ? at : list).length - 1];
     return c ? { energyHartree: c.electronicEnergyText ?? null, energyLevel: levelLabel(c.levelId) } : { energyHartree: null, energyLevel: null };
@@ -98,7 +113,7 @@ export async function gatherExportData(project: Project, user: Pick<User, "name"
   for (const s of speciesRows) {
     const atoms = atomsOf(s.geometryXyz);
     if (atoms) geometries.push({ label: s.label, conformer: null, charge: s.charge, multiplicity: s.multiplicity, ...energyFor(s.id, null), atoms });
-    for (const c of conformers.filter((x) => x.speciesId === s.id)) {
+    for (const c of conformersBy.get(s.id) ?? []) {
       const ca = atomsOf(c.geometryXyz);
       if (ca) geometries.push({ label: s.label, conformer: c.label, charge: s.charge, multiplicity: s.multiplicity, ...energyFor(s.id, c.id), atoms: ca });
     }
