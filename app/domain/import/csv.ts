@@ -13,9 +13,10 @@ export function stripBom(text: string): string {
 }
 
 /** Separators outside quotes in the first line. */
-function headingSeparators(text: string): { comma: number; semicolon: number } {
+function headingSeparators(text: string): { comma: number; semicolon: number; tab: number } {
   let comma = 0;
   let semicolon = 0;
+  let tab = 0;
   let quoted = false;
   for (let i = 0; i < text.length; i++) {
     const ch = text[i];
@@ -23,12 +24,17 @@ function headingSeparators(text: string): { comma: number; semicolon: number } {
     else if (!quoted && (ch === "\n" || ch === "\r")) break;
     else if (!quoted && ch === ",") comma++;
     else if (!quoted && ch === ";") semicolon++;
+    else if (!quoted && ch === "\t") tab++;
   }
-  return { comma, semicolon };
+  return { comma, semicolon, tab };
 }
 
 export function detectDialect(text: string): { ok: true; separator: "," | ";"; mark: DecimalMark } | { ok: false; message: string } {
-  const { comma, semicolon } = headingSeparators(text);
+  const { comma, semicolon, tab } = headingSeparators(text);
+  // Tab-separated text says nothing about its decimal mark, so it is refused rather than guessed.
+  if (tab && !comma && !semicolon) {
+    return { ok: false, message: "The heading row is separated by tabs; save the file as CSV (comma-separated with a decimal point, or semicolon-separated with a decimal comma)" };
+  }
   if (comma && semicolon) {
     return { ok: false, message: `The heading row holds both commas (${comma}) and semicolons (${semicolon}); separate the columns with one of them only` };
   }

@@ -42,6 +42,12 @@ describe("the CSV template reader", () => {
     expect(parsed.problems[0]!.message).toMatch(/commas.*semicolons/);
   });
 
+  test("tab-separated text is refused by name (its decimal mark cannot be told)", () => {
+    const parsed = parseTemplateCsv(HEAD.replace(/,/g, "\t") + "\nH2O\tH2O\t0\t1\tB3LYP/def2-SVP\t-76.3898123456\n");
+    expect(parsed.rows).toEqual([]);
+    expect(parsed.problems).toEqual([{ row: 1, column: "", message: expect.stringMatching(/separated by tabs/) }]);
+  });
+
   test("a Unicode minus (U+2212) is a minus", () => {
     const parsed = parseTemplateCsv(`${HEAD}\nH2O,H2O,0,1,B3LYP/def2-SVP,\u221276.3898123456\n`);
     expect(parsed.problems).toEqual([]);
