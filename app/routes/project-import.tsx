@@ -182,6 +182,12 @@ export default function ImportPage({ loaderData }: Route.ComponentProps) {
           <div className="space-y-3">
             <p className="text-sm">Preview of <b>{step.report.file.name}</b> ({step.report.file.format}, {step.report.file.rows} rows). Nothing is stored yet.</p>
             <Summary report={step.report} />
+            {step.report.species.some((x) => x.action === "create") ? (
+              <p className="text-sm" data-testid="import-new-species">
+                New species (labels not yet in the project):{" "}
+                {step.report.species.filter((x) => x.action === "create").map((x) => `${x.label}${x.formula ? ` (${x.formula})` : ""}`).join(", ")}
+              </p>
+            ) : null}
             {step.report.levels.some((l) => l.aliasOf) ? (
               <p className="text-sm text-muted">
                 {step.report.levels.filter((l) => l.aliasOf).map((l) => `${l.name} is the same level as ${l.aliasOf}`).join("; ")}.

@@ -33,6 +33,8 @@ describe("a chemist imports the template through the page", () => {
     expect(preview).toContain("HCN");
     expect(preview).toContain("create");
     expect(await page.getByTestId("summary-calculations-created").innerText()).toBe("3");
+    // The template's example labels are new to this project, and the preview names them.
+    expect(await page.getByTestId("import-new-species").innerText()).toContain("MeO-styrene (C9H10O)");
     await screenshot(page, "import-preview");
     // Nothing is stored before the commit.
     const before = await (await page.request.get(url(`/api/v1/projects/${projectId}/calculations`))).json();
