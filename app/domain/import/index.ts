@@ -13,7 +13,7 @@ export { parseTemplateCsv, detectDialect, splitCsv } from "./csv";
 export { parseTemplateXlsx, templateXlsx } from "./xlsx";
 export { parseQcschema, QCSCHEMA_NAMES } from "./qcschema";
 export { parseXyzFile } from "./xyz";
-export { TEMPLATE_COLUMNS, TEMPLATE_HEADINGS, TEMPLATE_EXAMPLE, templateCsv, toHartreeText, headingWithUnit } from "./template";
+export { TEMPLATE_COLUMNS, TEMPLATE_HEADINGS, TEMPLATE_EXAMPLE, templateCsv, headingWithUnit } from "./template";
 export { readDecimal, readInteger, readNumberList } from "./numbers";
 
 const ZIP_MAGIC = [0x50, 0x4b, 0x03, 0x04];

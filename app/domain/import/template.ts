@@ -7,7 +7,7 @@
  * not suit its column, or a column given twice is refused (row 1), since a guessed column would put
  * numbers in the wrong place.
  */
-import { HDecimal, J_PER_MOL, type EnergyUnit, parseEnergyUnit, ThermoInputError } from "../thermo";
+import { decimalTextToHartree, HDecimal, type EnergyUnit, parseEnergyUnit, ThermoInputError } from "../thermo";
 import { readBoolean, readDecimal, readInteger, readNumberList, normaliseCell, type DecimalMark } from "./numbers";
 import type { ImportField, ImportFormat, ImportProblem, ImportRow, LevelParts, ParsedImport } from "./types";
 
@@ -118,15 +118,6 @@ function bindHeader(header: string[], problems: ImportProblem[]): BoundColumn[] 
   return bound;
 }
 
-/** `value` (decimal text) in `unit` → hartree as decimal text, through the engine's CODATA factors. */
-export function toHartreeText(value: string, unit: string): string {
-  const d = new HDecimal(value);
-  if (unit === "hartree") return d.toFixed();
-  const factor = new HDecimal(J_PER_MOL[unit as EnergyUnit]).div(J_PER_MOL.hartree);
-  // 12 decimals = 1e-12 hartree, the stored precision (DECIMAL(24,12)); far below any kcal/mol input's digits.
-  return d.times(factor).toDecimalPlaces(12).toFixed();
-}
-
 /** Rows of text cells (first row = headings) → import rows. `rowOffset` = spreadsheet row of grid[0] minus 1. */
 export function rowsFromGrid(grid: string[][], mark: DecimalMark, format: ImportFormat, rowOffset = 0): ParsedImport {
   const problems: ImportProblem[] = [];
@@ -173,7 +164,7 @@ export function rowsFromGrid(grid: string[][], mark: DecimalMark, format: Import
         bad(field, `${JSON.stringify(t)} keeps only ${r2.significantDigits} significant digits: a spreadsheet shortened it in scientific notation; format the column as a number with all its decimals and export again`);
         return null;
       }
-      return toHartreeText(r2.text, heading[field]!.unit ?? "hartree");
+      return decimalTextToHartree(r2.text, (heading[field]!.unit ?? "hartree") as EnergyUnit);
     };
 
     const label = text("species");

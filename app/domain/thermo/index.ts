@@ -7,7 +7,7 @@ export * from "./constants";
 export {
   ENERGY_UNITS, J_PER_MOL, HDecimal, energy, hartree, kcalPerMol, kJPerMol, assertQuantity, convertEnergy, energyIn,
   addEnergies, subtractEnergies, scaleEnergy, parseEnergyUnit, convertTemperature, convertPressure,
-  toHartreeDecimal, sumHartree, hartreeDifference,
+  toHartreeDecimal, sumHartree, hartreeDifference, decimalTextToHartree,
 } from "./units";
 export type { EnergyUnit, Quantity, TemperatureUnit, PressureUnit, HartreeInput, HartreeTerm, HartreeDecimal } from "./units";
 export {

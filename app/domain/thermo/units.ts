@@ -149,6 +149,18 @@ export type HartreeInput = string | number | Quantity<"hartree"> | Decimal;
 
 const DECIMAL_RE = /^[+-]?(\d+\.?\d*|\.\d+)([eEdD][+-]?\d+)?$/;
 
+/**
+ * An energy given as decimal text in `unit` → hartree as decimal text, in decimal arithmetic through the
+ * conversion table. Rounded to 1e-12 hartree, the precision the ledger stores (DECIMAL(24,12)), far below
+ * the digits of any molar-energy input.
+ */
+export function decimalTextToHartree(value: string, unit: EnergyUnit): string {
+  const d = new HDecimal(value);
+  if (unit === "hartree") return d.toFixed();
+  const factor = new HDecimal(J_PER_MOL[unit]).div(J_PER_MOL.hartree);
+  return d.times(factor).toDecimalPlaces(12).toFixed();
+}
+
 /** Reads an absolute energy in hartree from a decimal string (Fortran D exponents accepted), number or Quantity. */
 export function toHartreeDecimal(value: HartreeInput, field = "energyHartree"): Decimal {
   if (Decimal.isDecimal(value)) {

@@ -1,5 +1,6 @@
 import { describe, expect, test } from "vitest";
-import { parseTemplateCsv, readDecimal, templateCsv, toHartreeText, parseImportFile } from "~/domain/import";
+import { parseTemplateCsv, readDecimal, templateCsv, parseImportFile } from "~/domain/import";
+import { decimalTextToHartree } from "~/domain/thermo";
 
 const HEAD = "Species,Formula,Charge,Multiplicity,Level,Electronic energy (hartree)";
 
@@ -76,7 +77,7 @@ describe("the CSV template reader", () => {
     expect(parsed.problems).toEqual([]);
     expect(Number(parsed.rows[0]!.calculation!.electronicEnergyHartree)).toBeCloseTo(-47934.77 / 627.5094740631, 9);
     // 1 hartree = 2625.4996394799 kJ/mol (CODATA 2018)
-    expect(Number(toHartreeText("-2625.4996394799", "kJ/mol"))).toBeCloseTo(-1, 10);
+    expect(Number(decimalTextToHartree("-2625.4996394799", "kJ/mol"))).toBeCloseTo(-1, 10);
   });
 
   test("an unknown unit in a heading is refused at row 1 naming the column", () => {

@@ -111,3 +111,18 @@ describe("decimal sums of absolute energies", () => {
     expect(() => toHartreeDecimal("-76.4 kcal")).toThrow(ThermoInputError);
   });
 });
+
+describe("decimalTextToHartree", () => {
+  it.each([
+    // 1 Eh = 627.5094740631 kcal/mol = 2625.4996394799 kJ/mol = 27.211386245988 eV (CODATA 2018)
+    ["-627.5094740631", "kcal/mol", -1],
+    ["2625.4996394799", "kJ/mol", 1],
+    ["27.211386245988", "eV", 1],
+  ] as const)("reads %s %s as %s hartree to 1e-12", (text, unit, expected) => {
+    expect(Math.abs(Number(decimalTextToHartree(text, unit)) - expected)).toBeLessThan(1e-12);
+  });
+
+  it("keeps every digit of a hartree value", () => {
+    expect(decimalTextToHartree("-1234.567890123456789", "hartree")).toBe("-1234.567890123456789");
+  });
+});
