@@ -3,7 +3,7 @@ import { data, Form, useNavigation } from "react-router";
 import type { Route } from "./+types/tools-thermo";
 import { FormError } from "~/components/forms";
 import { ModeEntropyChart } from "~/components/mode-entropy-chart";
-import { EnergyUnitSelect, formatEnergy, type DisplayEnergyUnit } from "~/components/energy-format";
+import { EnergyUnitSelect, formatEnergy, UNIT_LABEL, type DisplayEnergyUnit } from "~/components/energy-format";
 import { calculatorFormSchema, runCalculatorForm } from "~/services/calculator.server";
 import { requireUser } from "~/utils/guards.server";
 import { parseForm, ServiceError, serviceErrorToFields } from "~/utils/http.server";
@@ -43,9 +43,12 @@ export default function ThermoCalculator({ actionData }: Route.ComponentProps) {
   const [standardState, setStandardState] = useState("1 atm");
   const key = example ? "example" : "blank";
 
+  const err = (name: string) => (errors[name] ? <p className="field-error" role="alert">{errors[name]}</p> : null);
+
   return (
     <main className="mx-auto grid max-w-[1400px] gap-5 px-4 py-6 lg:grid-cols-[420px_1fr]">
-      <Form method="post" className="card space-y-3 self-start" noValidate key={key}>
+      {/* Units and symbols keep their case (kJ, σ, cm⁻¹): labels here are not upper-cased. */}
+      <Form method="post" className="card space-y-3 self-start [&_.label]:normal-case [&_.label]:tracking-normal" noValidate key={key}>
         <div className="flex items-baseline justify-between">
           <h1 className="text-lg font-bold">Thermochemistry calculator</h1>
           <button type="button" className="link text-xs" onClick={() => setExample(EXAMPLE)}>
@@ -57,12 +60,12 @@ export default function ThermoCalculator({ actionData }: Route.ComponentProps) {
         <div>
           <label className="label" htmlFor="frequencies">Frequencies (cm⁻¹; imaginary as negative)</label>
           <textarea id="frequencies" name="frequencies" rows={5} className="input font-mono" defaultValue={example?.frequencies} placeholder={"one per line, or separated by commas or spaces"} />
-          {errors.frequencies ? <p className="field-error" role="alert">{errors.frequencies}</p> : null}
+          {err("frequencies")}
         </div>
         <div>
           <label className="label" htmlFor="xyz">Geometry (XYZ, Å)</label>
           <textarea id="xyz" name="xyz" rows={6} className="input font-mono text-xs" defaultValue={example?.xyz} placeholder={"3\ncomment\nO 0.0 0.0 0.117\n…"} />
-          {errors.geometry || errors.xyz ? <p className="field-error" role="alert">{errors.geometry ?? errors.xyz}</p> : null}
+          {err("xyz")}
         </div>
         <div className="grid grid-cols-2 gap-3">
           <div>
@@ -74,7 +77,7 @@ export default function ThermoCalculator({ actionData }: Route.ComponentProps) {
                 <option value="C">°C</option>
               </select>
             </div>
-            {errors.temperature || errors.temperatureK ? <p className="field-error" role="alert">{errors.temperature ?? errors.temperatureK}</p> : null}
+            {err("temperature")}
           </div>
           <div>
             <label className="label" htmlFor="standardState">Standard state</label>
@@ -89,40 +92,44 @@ export default function ThermoCalculator({ actionData }: Route.ComponentProps) {
             <div className="col-span-2">
               <label className="label" htmlFor="pressure">Pressure (Pa)</label>
               <input id="pressure" name="pressure" className="input" defaultValue="101325" inputMode="decimal" />
-              {errors.pressure ? <p className="field-error" role="alert">{errors.pressure}</p> : null}
+              {err("pressure")}
             </div>
           ) : null}
           <div>
             <label className="label" htmlFor="symmetryNumber">Symmetry number σ</label>
             <input id="symmetryNumber" name="symmetryNumber" className="input" defaultValue={example?.symmetryNumber ?? "1"} inputMode="numeric" />
-            {errors.symmetryNumber ? <p className="field-error" role="alert">{errors.symmetryNumber}</p> : null}
+            {err("symmetryNumber")}
           </div>
           <div>
             <label className="label" htmlFor="multiplicity">Multiplicity</label>
             <input id="multiplicity" name="multiplicity" className="input" defaultValue="1" inputMode="numeric" />
-            {errors.multiplicity ? <p className="field-error" role="alert">{errors.multiplicity}</p> : null}
+            {err("multiplicity")}
           </div>
           <div>
             <label className="label" htmlFor="charge">Charge</label>
             <input id="charge" name="charge" className="input" defaultValue="0" inputMode="numeric" />
+            {err("charge")}
           </div>
           <div>
             <label className="label" htmlFor="frequencyScale">Frequency scale factor</label>
             <input id="frequencyScale" name="frequencyScale" className="input" defaultValue="1" inputMode="decimal" />
-            {errors.frequencyScale ? <p className="field-error" role="alert">{errors.frequencyScale}</p> : null}
+            {err("frequencyScale")}
           </div>
-          <div>
-            <label className="label" htmlFor="treatment">Low-frequency modes</label>
-            <select id="treatment" name="treatment" className="input" defaultValue="grimme">
-              <option value="none">harmonic (no treatment)</option>
-              <option value="grimme">quasi-RRHO entropy (Grimme 2012)</option>
-              <option value="truhlar">raise to cutoff (Truhlar 2011)</option>
-            </select>
-          </div>
-          <div>
-            <label className="label" htmlFor="cutoff">Cutoff (cm⁻¹)</label>
-            <input id="cutoff" name="cutoff" className="input" defaultValue="100" inputMode="decimal" />
-            {errors["lowFrequency.cutoff"] ? <p className="field-error" role="alert">{errors["lowFrequency.cutoff"]}</p> : null}
+          <div className="col-span-2 grid grid-cols-[1fr_7rem] gap-3">
+            <div>
+              <label className="label" htmlFor="treatment">Low-frequency modes</label>
+              <select id="treatment" name="treatment" className="input" defaultValue="grimme">
+                <option value="none">harmonic (no treatment)</option>
+                <option value="grimme">quasi-RRHO (Grimme 2012)</option>
+                <option value="truhlar">raised to cutoff (Truhlar 2011)</option>
+              </select>
+              {err("treatment")}
+            </div>
+            <div>
+              <label className="label" htmlFor="cutoff">Cutoff (cm⁻¹)</label>
+              <input id="cutoff" name="cutoff" className="input" defaultValue="100" inputMode="decimal" />
+              {err("cutoff")}
+            </div>
           </div>
           <div className="col-span-2">
             <label className="label" htmlFor="masses">Atomic masses</label>
@@ -130,6 +137,7 @@ export default function ThermoCalculator({ actionData }: Route.ComponentProps) {
               <option value="isotopic">most abundant isotope</option>
               <option value="average">standard atomic weights</option>
             </select>
+            {err("masses")}
           </div>
         </div>
         <button type="submit" className="btn-primary" disabled={busy}>
@@ -137,7 +145,7 @@ export default function ThermoCalculator({ actionData }: Route.ComponentProps) {
         </button>
       </Form>
 
-      <section className="space-y-4">
+      <section className="min-w-0 space-y-4">
         {!result ? (
           <div className="card text-muted">Results appear here: ZPE, enthalpy and free-energy corrections, entropy, and what each degree of freedom contributes.</div>
         ) : (
@@ -151,15 +159,16 @@ export default function ThermoCalculator({ actionData }: Route.ComponentProps) {
               </div>
               <dl className="grid grid-cols-2 gap-3 sm:grid-cols-5" data-testid="calculator-results">
                 {[
-                  ["ZPE", formatEnergy(result.zpe, unit)],
-                  ["H(T) − H(0)", formatEnergy(result.thermalEnergy, unit)],
-                  ["H correction", formatEnergy(result.enthalpyCorrection, unit)],
-                  ["G correction", formatEnergy(result.gibbsCorrection, unit)],
-                  ["S (J mol⁻¹ K⁻¹)", result.entropy.toFixed(2)],
-                ].map(([label, value]) => (
-                  <div key={label} className="rounded-md bg-paper px-3 py-2">
-                    <dt className="text-xs uppercase tracking-wide text-muted">{label}</dt>
-                    <dd className="num text-lg font-bold">{value}</dd>
+                  ["ZPE", formatEnergy(result.zpe, unit), UNIT_LABEL[unit]],
+                  ["H(T) − H(0)", formatEnergy(result.thermalEnergy, unit), UNIT_LABEL[unit]],
+                  ["H correction", formatEnergy(result.enthalpyCorrection, unit), UNIT_LABEL[unit]],
+                  ["G correction", formatEnergy(result.gibbsCorrection, unit), UNIT_LABEL[unit]],
+                  ["S", result.entropy.toFixed(2), "J mol⁻¹ K⁻¹"],
+                ].map(([label, value, unitLabel]) => (
+                  <div key={label} className="rounded-md border border-rule/60 bg-paper px-3 py-2">
+                    <dt className="text-xs font-medium text-muted">{label}</dt>
+                    <dd className="num text-right text-lg font-bold">{value}</dd>
+                    <dd className="text-right text-xs text-muted">{unitLabel}</dd>
                   </div>
                 ))}
               </dl>
@@ -168,7 +177,7 @@ export default function ThermoCalculator({ actionData }: Route.ComponentProps) {
               </p>
               {result.imaginaryFrequencies.length ? (
                 <p className="mt-2 text-sm text-warn" data-testid="imaginary">
-                  Left out as imaginary: {result.imaginaryFrequencies.map((f) => `${f} cm⁻¹`).join(", ")}
+                  Left out as imaginary: {result.imaginaryFrequencies.map((f) => `${formatSigned(f)} cm⁻¹`).join(", ")}
                 </p>
               ) : null}
               {result.warnings.map((w) => (
@@ -177,26 +186,31 @@ export default function ThermoCalculator({ actionData }: Route.ComponentProps) {
             </div>
             <div className="card">
               <h2 className="mb-2 font-bold">Contributions</h2>
-              <table className="table">
+              <table className="table [&_th]:normal-case [&_th]:tracking-normal" data-testid="contributions">
                 <thead>
                   <tr>
                     <th>Degree of freedom</th>
-                    <th className="text-right">Thermal energy ({unit})</th>
+                    <th className="text-right">Thermal energy ({UNIT_LABEL[unit]})</th>
                     <th className="text-right">S (J mol⁻¹ K⁻¹)</th>
                   </tr>
                 </thead>
                 <tbody>
-                  {(["translational", "rotational", "vibrational", "electronic"] as const).map((k) => (
+                  {CONTRIBUTIONS.map(([k, label]) => (
                     <tr key={k}>
-                      <td>{k}</td>
+                      <td>{label}</td>
                       <td className="num text-right">{formatEnergy(result.contributions[k].energy, unit)}</td>
                       <td className="num text-right">{result.contributions[k].entropy.toFixed(2)}</td>
                     </tr>
                   ))}
+                  <tr className="font-bold">
+                    <td>Total (H(T) − H(0) includes pV = kT)</td>
+                    <td className="num text-right">{formatEnergy(result.thermalEnergy, unit)}</td>
+                    <td className="num text-right">{result.entropy.toFixed(2)}</td>
+                  </tr>
                 </tbody>
               </table>
               <p className="mt-2 text-xs text-muted">
-                Principal moments (u Å²): {result.principalMoments.map((m) => m.toFixed(4)).join(", ")}. Vibrational energy excludes the ZPE.
+                Principal moments (u Å²): <span className="num">{result.principalMoments.map((m) => m.toFixed(4)).join(", ")}</span>. Vibrational energy excludes the ZPE.
               </p>
             </div>
             {result.perMode ? (
@@ -212,3 +226,12 @@ export default function ThermoCalculator({ actionData }: Route.ComponentProps) {
     </main>
   );
 }
+
+const CONTRIBUTIONS = [
+  ["translational", "Translational"],
+  ["rotational", "Rotational"],
+  ["vibrational", "Vibrational"],
+  ["electronic", "Electronic"],
+] as const;
+
+const formatSigned = (v: number) => String(v).replace(/^-/, "−");

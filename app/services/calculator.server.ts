@@ -124,10 +124,34 @@ export function runCalculator(raw: CalculatorInput) {
     };
   } catch (error) {
     if (error instanceof ThermoInputError) {
-      throw new ServiceError(422, "invalid_input", error.message, [{ field: error.field, message: error.message }]);
+      const field = apiFieldOf(error.field);
+      throw new ServiceError(422, "invalid_input", error.message, [{ field, message: error.message }]);
     }
     throw error;
   }
+}
+
+/** The engine names its inputs with their units (temperatureK, frequenciesCm1[3]); the API's client sent these. */
+function apiFieldOf(engineField: string): string {
+  return engineField
+    .replace(/^frequenciesCm1/, "frequencies")
+    .replace(/^temperatureK$/, "temperature")
+    .replace(/^pressurePa$/, "pressure")
+    .replace(/^lowFrequency\.cutoffCm1$/, "lowFrequency.cutoff")
+    .replace(/^(symbols|coordinates)/, "geometry.$1");
+}
+
+/** The page's inputs for an API field, so that an error appears beside the input it is about. */
+const FORM_FIELD_OF: Array<[RegExp, string]> = [
+  [/^frequencies/, "frequencies"],
+  [/^geometry/, "xyz"],
+  [/^lowFrequency\.cutoff$/, "cutoff"],
+  [/^lowFrequency\.treatment$/, "treatment"],
+  [/^(temperature|pressure|symmetryNumber|multiplicity|charge|frequencyScale|masses)$/, "$1"],
+];
+function formFieldOf(apiField: string | undefined): string {
+  for (const [re, to] of FORM_FIELD_OF) if (apiField && re.test(apiField)) return apiField.replace(re, to).replace(/\[.*$/, "");
+  return "form";
 }
 
 export type CalculatorResult = ReturnType<typeof runCalculator>;
@@ -165,6 +189,18 @@ export function runCalculatorForm(form: z.infer<typeof calculatorFormSchema>) {
   if (pressure !== undefined && !(pressure > 0)) {
     throw new ServiceError(422, "invalid_input", "Enter the pressure in Pa", [{ field: "pressure", message: "Enter a pressure above 0 Pa" }]);
   }
+  try {
+    return runCalculatorFromForm(form, frequencies, temperature, pressure);
+  } catch (error) {
+    if (error instanceof ServiceError) {
+      const details = error.details.map((d) => ({ field: formFieldOf(d.field), message: d.message }));
+      throw new ServiceError(error.status, error.code, error.message, details);
+    }
+    throw error;
+  }
+}
+
+function runCalculatorFromForm(form: z.infer<typeof calculatorFormSchema>, frequencies: number[], temperature: number, pressure: number | undefined) {
   return runCalculator({
     frequencies,
     geometry: form.xyz.trim() ? { format: "xyz", data: form.xyz } : undefined,

@@ -26,6 +26,16 @@ describe("thermochemistry calculator page", () => {
     // The per-mode chart is drawn.
     await expect(b.page.getByRole("img", { name: "Entropy per mode" }).count()).resolves.toBe(1);
     await screenshot(b.page, "calculator");
+
+    // A soft mode: the three treatments part below the cutoff, and the table keeps the unit's case.
+    await b.page.locator("textarea[name=frequencies]").fill("42.5\n1638.2\n3812.5");
+    await b.page.getByRole("button", { name: "Compute" }).click();
+    await b.page.waitForFunction(
+      (before) => document.querySelector("[data-testid=calculator-results]")?.textContent !== before,
+      kj,
+    );
+    await expect(b.page.getByTestId("contributions").textContent()).resolves.toContain("kJ/mol");
+    await screenshot(b.page, "calculator-soft-mode");
     expect(b.foreignRequests).toEqual([]);
   });
 });

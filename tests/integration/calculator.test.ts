@@ -68,6 +68,8 @@ describe("POST /api/v1/thermo", () => {
     ["both pressure and standard state", { pressure: 101325 }, "pressure"],
     ["a multiplicity the electron count forbids", { multiplicity: 2 }, "multiplicity"],
     ["no geometry for a polyatomic molecule", { geometry: undefined }, "geometry"],
+    ["more modes than 3N − 6", { frequencies: [1000, 1100, 1200, 1300] }, "frequencies"],
+    ["an element that does not exist", { geometry: { symbols: ["O", "H", "Xq"], coordinates: WATER.geometry.coordinates } }, "geometry.symbols[2]"],
   ])("refuses %s with 422 naming the field", async (_, change, field) => {
     const token = await tokenFor(DEMO.chemist);
     const res = await api("/api/v1/thermo", { token, body: { ...WATER, ...change } });
@@ -108,6 +110,33 @@ describe("the calculator page", () => {
     const html = await res.text();
     expect(html).toContain("Corrections at");
     expect(html).toContain("298.15"); // 25 °C = 298.15 K (definition of the Celsius scale)
+  });
+
+  it("shows an error the engine finds beside the input it is about", async () => {
+    const token = await tokenFor(DEMO.chemist);
+    const xyz = ["3", "water", ...WATER.geometry.coordinates.map((c, i) => `${WATER.geometry.symbols[i]} ${c.join(" ")}`)].join("\n");
+    const fields = {
+      frequencies: "1594.6 3657.1 3755.8 4000", xyz, temperature: "298.15", temperatureUnit: "K", standardState: "1 atm",
+      symmetryNumber: "2", multiplicity: "1", charge: "0", treatment: "none", cutoff: "100", frequencyScale: "1", masses: "isotopic",
+    };
+    const post = (patch: Record<string, string>) =>
+      fetch(`${BASE_URL}/tools/thermo`, {
+        method: "POST",
+        body: new URLSearchParams({ ...fields, ...patch }),
+        headers: { Authorization: `Bearer ${token}`, "Content-Type": "application/x-www-form-urlencoded" },
+      });
+    // The error paragraph follows the field's own textarea/input (the page renders the two together).
+    const besideField = (html: string, id: string, text: string) =>
+      new RegExp(`id="${id}"[^>]*>(?:[^<]*</textarea>)?<p class="field-error"[^>]*>[^<]*${text}`).test(html);
+    const tooMany = await post({});
+    expect(tooMany.status).toBe(422);
+    expect(besideField(await tooMany.text(), "frequencies", "at most 3N")).toBe(true);
+    const badXyz = await post({ frequencies: "1594.6 3657.1 3755.8", xyz: "3\nwater\nO 0 0 0\nH 0 0 1\n" });
+    expect(badXyz.status).toBe(422);
+    expect(besideField(await badXyz.text(), "xyz", "")).toBe(true);
+    const badCharge = await post({ frequencies: "1594.6 3657.1 3755.8", charge: "1" });
+    expect(badCharge.status).toBe(422);
+    expect(besideField(await badCharge.text(), "multiplicity", "")).toBe(true);
   });
 
   it("says which frequency is not a number", async () => {
