@@ -1,10 +1,10 @@
 import { data, Form } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/settings-tokens";
-import { Field, Notice } from "~/components/forms";
+import { Field, FormError, Notice } from "~/components/forms";
 import { createApiToken, listApiTokens, revokeApiToken } from "~/services/tokens.server";
 import { requireUser } from "~/utils/guards.server";
-import { parseForm, positiveIntId } from "~/utils/http.server";
+import { parseForm, positiveIntId, ServiceError, serviceErrorToFields } from "~/utils/http.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "API tokens · Thermotally" }];
 
@@ -26,7 +26,12 @@ export async function action({ request }: Route.ActionArgs) {
     const { token } = await createApiToken(user, parsed.data.name);
     return { errors: {} as Record<string, string>, created: token };
   }
-  await revokeApiToken(user, parsed.data.tokenId);
+  try {
+    await revokeApiToken(user, parsed.data.tokenId);
+  } catch (error) {
+    if (error instanceof ServiceError) return data({ errors: serviceErrorToFields(error), created: null }, { status: error.status });
+    throw error;
+  }
   return { errors: {} as Record<string, string>, created: null };
 }
 
@@ -39,6 +44,7 @@ export default function Tokens({ loaderData, actionData }: Route.ComponentProps)
         <p className="mb-3 text-sm text-muted">
           Scripts send a token as <code>Authorization: Bearer …</code>. A token acts with your permissions in every project.
         </p>
+        <FormError error={errors.form ?? errors.tokenId} />
         {actionData?.created ? (
           <div className="mb-3">
             <Notice>New token — copy it now, it is not shown again:</Notice>

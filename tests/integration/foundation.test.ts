@@ -101,6 +101,18 @@ describe("sign-in", () => {
     expect(right.status).toBe(429);
   });
 
+  it("answers revoking someone else's or an unknown token on the tokens page with a message, not a server error", async () => {
+    const token = await tokenFor(DEMO.chemist);
+    const res = await fetch(`${BASE_URL}/settings/tokens`, {
+      method: "POST",
+      body: new URLSearchParams({ intent: "revoke", tokenId: "99999999" }),
+      headers: { Authorization: `Bearer ${token}`, "Content-Type": "application/x-www-form-urlencoded" },
+      redirect: "manual",
+    });
+    expect(res.status).toBe(404);
+    expect(await res.text()).toContain("No such token");
+  });
+
   it("refuses a revoked or unknown bearer token", async () => {
     const res = await api("/api/v1/projects", { token: "tt_unknown" });
     expect(res.status).toBe(401);

@@ -102,6 +102,7 @@ export interface ThermoResult {
 export const GRIMME_B_AV = 1e-44;
 export const GRIMME_ALPHA = 4;
 export const DEFAULT_CUTOFF_CM1 = 100;
+const MAX_FREQUENCY_CM1 = 1e5;
 /** μ = h/(8π²ν) with ν = c ν̃: μ = MU_PREFACTOR / ν̃[cm⁻¹], kg m². */
 const MU_PREFACTOR = H_PLANCK / (8 * Math.PI * Math.PI * C_LIGHT * 100);
 const ROT_TEMP_PREFACTOR = (H_PLANCK * H_PLANCK) / (8 * Math.PI * Math.PI * K_B * AMU_A2_TO_KG_M2); // Θ = this / I[u Å²]
@@ -160,6 +161,7 @@ export function computeThermochemistry(input: ThermoInput): ThermoResult {
     if (!coordinates) throw new ThermoInputError("geometry", `A polyatomic species (${nAtoms} atoms) needs coordinates for its moments of inertia.`);
     validateGeometry(symbols, coordinates);
     moments = principalMomentsFromMasses(m, coordinates);
+    if (!moments.every(Number.isFinite)) throw new ThermoInputError("geometry", "The coordinates are too large for moments of inertia (Å expected).");
     if (isAtom(moments)) throw new ThermoInputError("geometry", "All atoms sit at one point; check the coordinates (Å).");
   }
   const atom = nAtoms === 1;
@@ -183,6 +185,8 @@ export function computeThermochemistry(input: ThermoInput): ThermoResult {
     if (typeof f !== "number" || !Number.isFinite(f)) throw new ThermoInputError(`frequenciesCm1[${i}]`, `frequenciesCm1[${i}] must be a finite number (got ${String(f)}).`);
     if (f === 0) throw new ThermoInputError(`frequenciesCm1[${i}]`, `frequenciesCm1[${i}] is 0; leave translations and rotations out of the list.`);
     if (f < 0) imaginary.push(f);
+    // No molecular vibration comes near 1e5 cm⁻¹ (H₂'s is 4401 cm⁻¹, from memory): a larger value is a unit mix-up.
+    else if (f * scale > MAX_FREQUENCY_CM1) throw new ThermoInputError(`frequenciesCm1[${i}]`, `frequenciesCm1[${i}] is ${f * scale} cm⁻¹ after scaling; vibrations lie below ${MAX_FREQUENCY_CM1} cm⁻¹ (check the unit).`);
     else real[nReal++] = f * scale;
   }
   if (atom && nf > 0) throw new ThermoInputError("frequenciesCm1", "An atom has no vibrations; give an empty list of frequencies.");
@@ -273,6 +277,11 @@ export function computeThermochemistry(input: ThermoInput): ThermoResult {
   const enthalpyCorrection = zpe + thermalEnergy;
   const entropy = R * (sTransR + sRotR + sVibR + sElR);
   const gibbsCorrection = enthalpyCorrection - (T * entropy) / (E_H * N_A);
+
+  // Extreme but finite inputs (T = 1e-300 K, P = 1e300 Pa) overflow the formulas: refuse rather than answer ±Infinity or NaN.
+  if (![zpe, thermalEnergy, entropy, gibbsCorrection].every(Number.isFinite)) {
+    throw new ThermoInputError("temperatureK", `The model gives no finite result at T = ${T} K and P = ${P} Pa with these frequencies; check the temperature, pressure and frequencies.`);
+  }
 
   const perMode: ThermoResult["perMode"] = wantPerMode
     ? { frequenciesCm1: Array.from(real.subarray(0, nReal)), entropy: { none: pmNone, grimme: pmGrimme, truhlar: pmTruhlar } }

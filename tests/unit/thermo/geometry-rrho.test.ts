@@ -231,6 +231,12 @@ describe("bad input is rejected with the field named", () => {
     [{ lowFrequency: { treatment: "grimme" as const, cutoffCm1: 0 } }, "lowFrequency.cutoffCm1"],
     [{ masses: "heavy" as never }, "masses"],
     [{ charge: 1 }, "multiplicity"], // H2O+ is a doublet, not a singlet
+    // finite inputs whose results overflow: an error, never ±Infinity or NaN
+    [{ frequenciesCm1: [1e308, 3657, 3756] }, "frequenciesCm1[0]"],
+    [{ frequencyScale: 1e306 }, "frequenciesCm1[0]"],
+    [{ temperatureK: 1e-300 }, "temperatureK"],
+    [{ temperatureK: 1e300 }, "temperatureK"],
+    [{ geometry: { symbols: ["O", "H", "H"], coordinates: [[0, 0, 0], [0, 1e200, 0], [0, -0.76, 0.59]] } }, "geometry"],
   ])("%j → %s", (patch, field) => {
     try {
       computeThermochemistry({ ...ok, ...(patch as Partial<ThermoInput>) });
