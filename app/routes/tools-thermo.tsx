@@ -5,6 +5,7 @@ import { FormError } from "~/components/forms";
 import { ModeEntropyChart } from "~/components/mode-entropy-chart";
 import { EnergyUnitSelect, formatEnergy, UNIT_LABEL, type DisplayEnergyUnit } from "~/components/energy-format";
 import { calculatorFormSchema, runCalculatorForm } from "~/services/calculator.server";
+import { convertTemperature } from "~/domain/thermo/units";
 import { requireUser } from "~/utils/guards.server";
 import { parseForm, ServiceError, serviceErrorToFields } from "~/utils/http.server";
 
@@ -153,7 +154,7 @@ export default function ThermoCalculator({ actionData }: Route.ComponentProps) {
             <div className="card">
               <div className="mb-3 flex flex-wrap items-center gap-3">
                 <h2 className="mr-auto font-bold">
-                  Corrections at <span className="num">{result.temperature}</span> K, {result.standardState.name}
+                  Corrections at <span className="num">{result.temperature}</span> K (<span className="num">{convertTemperature(result.temperature, "K", "C").toFixed(2)}</span> °C), {result.standardState.name}
                 </h2>
                 <EnergyUnitSelect value={unit} onChange={setUnit} />
               </div>
