@@ -42,11 +42,12 @@ export function solutionStandardStateCorrection(options: {
   const c = requirePositive(options.concentrationMolL ?? 1, "concentrationMolL");
   const j = R_GAS * T * Math.log((c * 1000 * R_GAS * T) / P);
   const fromText = typeof options.from === "number" ? `${options.from} Pa` : (options.from ?? "1 atm");
+  const kcalPerMol = (j / HARTREE_TO_J_PER_MOL) * HARTREE_TO_KCAL_PER_MOL;
   return {
     hartree: j / HARTREE_TO_J_PER_MOL,
-    kcalPerMol: (j / HARTREE_TO_J_PER_MOL) * HARTREE_TO_KCAL_PER_MOL,
+    kcalPerMol,
     jPerMol: j,
-    description: `RT ln(cRT/P°) from the ideal gas at ${fromText} to ${c} mol/L at ${T} K: ${(j / 4184).toFixed(3)} kcal/mol.`,
+    description: `RT ln(cRT/P°) from the ideal gas at ${fromText} to ${c} mol/L at ${T} K: ${kcalPerMol.toFixed(3)} kcal/mol.`,
   };
 }
 
