@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import {
   HARTREE_TO_KJ_PER_MOL, HARTREE_TO_KCAL_PER_MOL, HARTREE_TO_EV, HARTREE_TO_CM1, R_GAS, PRIMARY_CONSTANTS, BOHR_TO_ANGSTROM,
   ThermoInputError, convertEnergy, energy, hartree, kcalPerMol, addEnergies, parseEnergyUnit, convertTemperature, convertPressure,
-  sumHartree, hartreeDifference, ENERGY_UNITS, toHartreeDecimal,
+  sumHartree, hartreeDifference, ENERGY_UNITS, toHartreeDecimal, decimalTextToHartree,
 } from "../../../app/domain/thermo/index";
 
 describe("CODATA 2018 conversion factors", () => {
