@@ -182,7 +182,7 @@ export default function CalculationsPage({ loaderData }: Route.ComponentProps) {
           tooltipShowDelay={300}
         />
       )}
-      <p className="text-xs text-muted">Red cells feed a current error (not converged, a non-negative energy, or stored duplicates that disagree); hover for the reason.</p>
+      <p className="text-xs text-muted">Red cells feed a current error — a missing energy a reaction needs, levels mixed, a transition state without exactly one imaginary mode, not converged, stored duplicates that disagree; hover for the reason (the audit lists them all).</p>
     </section>
   );
 }

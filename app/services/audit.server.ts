@@ -1,10 +1,10 @@
 import { classifyBasis, electronCount, isMultiplicityPossible } from "../domain/thermo";
 import { energyPlausibility } from "../domain/thermo/plausibility";
 import type { Project } from "../../db/models/foundation";
-import { energiesDisagree } from "./calculations.server";
+import { energiesDisagree, type CellFlag } from "./calculations.server";
 import {
   computeProjectLedger, frequenciesOf, speciesComposition,
-  type CalcRow, type LedgerData, type Problem, type ProtocolRow,
+  type CalcRow, type LedgerData, type Problem, type ProtocolRow, type SpeciesRow,
 } from "./ledger-compute.server";
 import { overviewCountProviders } from "./overview.server";
 
@@ -108,11 +108,32 @@ function calcRules(data: LedgerData, link: ReturnType<typeof links>): Finding[] 
   return out;
 }
 
+/**
+ * The imaginary modes of a species, from its stored frequencies at the default protocol's thermal level
+ * (else at any level): one entry per calculation with frequencies.
+ */
+function modeChecks(ctx: AuditContext, sp: SpeciesRow) {
+  const { data } = ctx;
+  const def = ctx.defaultProtocol;
+  const lt = def ? (def.thermalLevelId ?? def.energyLevelId) : null;
+  const withFreq = (data.calcsBySpecies.get(sp.id) ?? []).filter((c) => c.frequencyCount > 0);
+  const atLt = withFreq.filter((c) => c.levelId === lt);
+  const out: { c: CalcRow; imag: number[]; where: string }[] = [];
+  for (const c of atLt.length ? atLt : withFreq) {
+    const f = frequenciesOf(c);
+    if (!f) continue;
+    const where = `${data.levels.get(c.levelId)?.label ?? ""} (#${c.id}${c.conformerId ? `, conformer ${data.conformers.get(c.conformerId)?.label ?? c.conformerId}` : ""})`;
+    out.push({ c, imag: f.filter((x) => x < 0), where });
+  }
+  return out;
+}
+
+const tsModesMessage = (sp: SpeciesRow, imag: number[], where: string) =>
+  `Transition state ${sp.label} has ${imag.length} imaginary modes at ${where}${imag.length ? `: ${imag.join(", ")} cm⁻¹` : ""}; exactly one is needed`;
+
 function speciesRules(ctx: AuditContext, link: ReturnType<typeof links>): Finding[] {
   const { data } = ctx;
   const out: Finding[] = [];
-  const def = ctx.defaultProtocol;
-  const lt = def ? (def.thermalLevelId ?? def.energyLevelId) : null;
   for (const sp of data.species.values()) {
     const obj: AuditObject = { type: "species", id: sp.id, label: sp.label };
     const comp = speciesComposition(sp);
@@ -131,25 +152,13 @@ function speciesRules(ctx: AuditContext, link: ReturnType<typeof links>): Findin
         out.push({ severity: "error", code: "impossible_charge", message: `${sp.label}: ${(e as Error).message}`, object: obj, link: link.species(sp.id) });
       }
     }
-    // Imaginary modes, from the stored frequencies at the default protocol's thermal level (else any level).
-    const calcs = data.calcsBySpecies.get(sp.id) ?? [];
-    const withFreq = calcs.filter((c) => c.frequencyCount > 0);
-    const atLt = withFreq.filter((c) => c.levelId === lt);
-    const used = atLt.length ? atLt : withFreq;
+    const withFreq = (data.calcsBySpecies.get(sp.id) ?? []).filter((c) => c.frequencyCount > 0);
     if (sp.kind === "transition-state" && withFreq.length === 0) {
       out.push({ severity: "warning", code: "ts_no_frequencies", message: `Transition state ${sp.label} has no frequencies stored; its single imaginary mode cannot be checked`, object: obj, link: link.species(sp.id) });
     }
-    for (const c of used) {
-      const f = frequenciesOf(c);
-      if (!f) continue;
-      const imag = f.filter((x) => x < 0);
-      const where = `${data.levels.get(c.levelId)?.label ?? ""} (#${c.id}${c.conformerId ? `, conformer ${data.conformers.get(c.conformerId)?.label ?? c.conformerId}` : ""})`;
+    for (const { imag, where } of modeChecks(ctx, sp)) {
       if (sp.kind === "transition-state" && imag.length !== 1) {
-        out.push({
-          severity: "error", code: "ts_imaginary_modes",
-          message: `Transition state ${sp.label} has ${imag.length} imaginary modes at ${where}${imag.length ? `: ${imag.join(", ")} cm⁻¹` : ""}; exactly one is needed`,
-          object: obj, link: link.species(sp.id),
-        });
+        out.push({ severity: "error", code: "ts_imaginary_modes", message: tsModesMessage(sp, imag, where), object: obj, link: link.species(sp.id) });
       }
       if (sp.kind === "minimum" && imag.length > 0) {
         out.push({
@@ -295,3 +304,47 @@ overviewCountProviders.push(async (project: Project) => {
     { key: "audit-warnings", label: "Audit warnings", value: audit.counts.warning },
   ];
 });
+
+/**
+ * The audit's errors on the calculations grid: a cell (species × level) is marked when a reaction or
+ * pathway error names that species at that level (a missing single point, levels mixed, missing
+ * frequencies …), and a transition state's cell when its stored frequencies do not show exactly one
+ * imaginary mode. Same computation as the audit, so the grid and the audit never disagree.
+ */
+export async function auditCellFlags(projectId: number): Promise<Map<string, CellFlag[]>> {
+  const ledger = await computeProjectLedger(projectId);
+  const ctx: AuditContext = { ...ledger, projectId };
+  const { data } = ledger;
+  const levelByLabel = new Map([...data.levels.values()].map((l) => [l.label, l.id]));
+  const out = new Map<string, CellFlag[]>();
+  const seen = new Set<string>();
+  const add = (key: string, flag: CellFlag) => {
+    const k = `${key}|${flag.message}`;
+    if (seen.has(k)) return;
+    seen.add(k);
+    const list = out.get(key) ?? [];
+    // A species used by many reactions: the first few say enough.
+    if (list.filter((f) => f.code === flag.code).length < 3) out.set(key, [...list, flag]);
+  };
+  const rows = [
+    ...ledger.reactions.map((r) => ({ what: `Reaction ${r.equation}`, problems: r.problems })),
+    ...ledger.pathways.map((w) => ({ what: `Pathway ${w.pathway.name}`, problems: w.problems })),
+  ];
+  for (const { what, problems } of rows) {
+    for (const p of problems) {
+      if (p.severity !== "error" || !p.species || !p.level) continue;
+      const sp = data.speciesByLabel.get(p.species);
+      const levelId = levelByLabel.get(p.level);
+      if (!sp || levelId === undefined) continue;
+      add(`${sp.id}:${levelId}`, { code: p.code, severity: "error", message: `${what}: ${p.message}` });
+    }
+  }
+  for (const sp of data.species.values()) {
+    if (sp.kind !== "transition-state") continue;
+    for (const { c, imag, where } of modeChecks(ctx, sp)) {
+      if (imag.length === 1) continue;
+      add(`${sp.id}:${c.levelId}`, { code: "ts_imaginary_modes", severity: "error", message: tsModesMessage(sp, imag, where) });
+    }
+  }
+  return out;
+}

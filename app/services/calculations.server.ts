@@ -513,6 +513,10 @@ cellFlagRules.push(({ calculations, species }) => {
   return out;
 });
 
+// The audit's errors (a missing energy a reaction needs, levels mixed, a TS without exactly one imaginary
+// mode …). Imported when first used: the audit module itself builds on this one.
+cellFlagRules.push(async ({ projectId }) => (await import("./audit.server")).auditCellFlags(projectId));
+
 /** Flags of every grid cell of a project that feeds a current error, keyed `${speciesId}:${levelId}`. */
 export async function calculationCellFlags(projectId: number): Promise<Map<string, CellFlag[]>> {
   const { models } = db();

@@ -304,6 +304,26 @@ describe("reaction ledger", () => {
     expect(res.body.counts.error).toBeGreaterThan(0);
   });
 
+  test("the calculations grid marks the cells that feed a current error, and only those", async () => {
+    const grid = (await get(ctx, "/calculations/grid", viewer)).body as {
+      rows: { label: string; cells: Record<string, { energy: string | null; flags: { code: string; severity: string; message: string }[] }> }[];
+    };
+    const cell = (label: string, levelId: number) => grid.rows.find((r) => r.label === label)!.cells[String(levelId)]!;
+    const codes = (label: string, levelId: number) => cell(label, levelId).flags.map((f) => f.code);
+    // TS2 has two imaginary modes at level 1.
+    expect(codes("TS2", l1.id)).toContain("ts_imaginary_modes");
+    expect(cell("TS2", l1.id).flags.find((f) => f.code === "ts_imaginary_modes")!.severity).toBe("error");
+    // CO2 has no single point at level 1, which CO2 + 3 H2 -> MeOH + H2O needs: the empty cell is marked.
+    expect(cell("CO2", l1.id).energy).toBeNull();
+    expect(codes("CO2", l1.id)).toContain("missing_calculation");
+    expect(cell("CO2", l1.id).flags.find((f) => f.code === "missing_calculation")!.message).toContain("CO2 + 3 H2");
+    // CH2O has its energy only at level 2: the cell at level 1 is the one to fill.
+    expect(codes("CH2O", l1.id)).toContain("level_mismatch");
+    // Cells behind clean rows carry nothing.
+    expect(cell("H2", l1.id).flags).toEqual([]);
+    expect(cell("TS1", l1.id).flags).toEqual([]);
+  });
+
   test("a unit that is not offered is refused with a clear message", async () => {
     const res = await get(ctx, "/reactions?unit=furlongs");
     expect(res.status).toBe(400);

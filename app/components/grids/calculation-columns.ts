@@ -48,7 +48,8 @@ export function calculationColumns(levels: GridLevel[], opts: { canEdit: boolean
         cell.energy = p.newValue === "" || p.newValue === null || p.newValue === undefined ? null : String(p.newValue).trim();
         return true;
       },
-      valueFormatter: (p) => formatHartree(p.value, decimals),
+      // An empty cell that an error needs says so (the tooltip tells which reaction and why).
+      valueFormatter: (p) => (p.value ? formatHartree(p.value, decimals) : p.data?.cells[String(l.id)]?.flags.some((f) => f.severity === "error") ? "missing" : ""),
       // An explicit cellClass replaces the column type's, so the right alignment is named here too.
       cellClass: (p: CellClassParams<GridRow>) => `num ag-right-aligned-cell ${cellFlagClass(p.data?.cells[String(l.id)])}`,
       tooltipValueGetter: (p: ITooltipParams<GridRow>) => {
