@@ -2,6 +2,7 @@ import { Link } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/project-audit";
 import { FindingReview } from "~/components/comments";
+import { useProject } from "~/components/use-project";
 import { annotatedAudit } from "~/services/team-audit.server";
 import { requireProject } from "~/utils/guards.server";
 import { parseParams, positiveIntId } from "~/utils/http.server";
@@ -22,8 +23,34 @@ const GROUPS = [
   { severity: "note", title: "Notes", hint: "For the record.", tone: "text-steel border-steel" },
 ] as const;
 
+type ReviewedFinding = Parameters<typeof FindingReview>[0]["finding"];
+
+/**
+ * The comments and the acceptance of one finding folded into one line; it opens on a click. The
+ * summary alone says whether there is anything to read (accepted, n comments).
+ */
+function ReviewDisclosure({ finding, canComment, canReview }: { finding: ReviewedFinding; canComment: boolean; canReview: boolean }) {
+  const n = finding.comments.length;
+  if (!n && !finding.acceptance && !canComment && !canReview) return null;
+  const parts = [
+    finding.acceptance ? `accepted by ${finding.acceptance.acceptedBy}` : null,
+    n ? `${n} comment${n === 1 ? "" : "s"}` : null,
+  ].filter(Boolean);
+  const action = [canComment ? "comment" : null, canReview && !finding.acceptance ? "accept" : null].filter(Boolean).join(" or ");
+  return (
+    <details className="basis-full text-xs" data-testid="finding-review">
+      <summary className={`cursor-pointer select-none ${finding.acceptance ? "text-ok" : "text-muted"}`}>
+        {parts.length ? parts.join(" · ") : action ? action[0]!.toUpperCase() + action.slice(1) + "…" : "Review"}
+        {parts.length && action ? <span className="text-muted"> · {action}…</span> : null}
+      </summary>
+      <FindingReview finding={finding} />
+    </details>
+  );
+}
+
 export default function AuditPage({ loaderData }: Route.ComponentProps) {
   const { findings, counts, defaultProtocol } = loaderData;
+  const { can } = useProject();
   return (
     <div className="grid gap-4">
       <section className="card">
@@ -55,7 +82,7 @@ export default function AuditPage({ loaderData }: Route.ComponentProps) {
                     {f.object.type} {f.object.label}
                   </Link>
                   <span className="basis-full">{f.message}</span>
-                  <FindingReview finding={f} />
+                  <ReviewDisclosure finding={f} canComment={can.comment} canReview={can.review} />
                 </li>
               ))}
             </ul>
