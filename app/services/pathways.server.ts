@@ -162,7 +162,8 @@ export async function createPathway(project: Project, by: Principal, input: Path
 }
 
 async function findPathway(projectId: number, pathwayId: number, tx?: Transaction) {
-  const p = await db().models.Pathway.findOne({ where: { projectId, id: pathwayId }, transaction: tx });
+  // Locked for the transaction: its states are rewritten before the version bump.
+  const p = await db().models.Pathway.findOne({ where: { projectId, id: pathwayId }, transaction: tx, ...(tx ? { lock: tx.LOCK.UPDATE } : {}) });
   if (!p) throw new ServiceError(404, "not_found", "No such pathway in this project");
   return p;
 }

@@ -86,7 +86,8 @@ async function extrasOf(r: Reaction, tx?: Transaction) {
 }
 
 async function findReaction(projectId: number, reactionId: number, tx?: Transaction) {
-  const r = await db().models.Reaction.findOne({ where: { projectId, id: reactionId }, transaction: tx });
+  // Locked for the transaction: its terms are rewritten before the version bump.
+  const r = await db().models.Reaction.findOne({ where: { projectId, id: reactionId }, transaction: tx, ...(tx ? { lock: tx.LOCK.UPDATE } : {}) });
   if (!r) throw new ServiceError(404, "not_found", "No such reaction in this project");
   return r;
 }

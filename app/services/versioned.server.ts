@@ -15,6 +15,9 @@ export async function updateVersioned<M extends Model & { version: number; id: n
   changes: Partial<M["_attributes"]>,
   history: { projectId: number; objectType: string; summary: string; omit?: string[] },
 ): Promise<M> {
+  // Re-read under a row lock: two edits of the same version that arrive together are then serialised,
+  // and the second one sees the first one's version and is refused instead of overwriting it.
+  await row.reload({ transaction: tx, lock: tx.LOCK.UPDATE });
   if (expectedVersion !== undefined && expectedVersion !== row.version) {
     throw new ServiceError(
       409,

@@ -262,6 +262,30 @@ describe("reaction ledger", () => {
     expect(actions).toEqual(["create", "delete", "update"]);
   });
 
+  test("optimistic locking of a pathway: stale edits are refused with the current value, and of two edits of one version sent at once only one is stored", async () => {
+    const states = [{ label: "start", terms: [{ species: "CO", coefficient: 1 }, { species: "H2", coefficient: 2 }] }, { label: "end", terms: [{ species: "MeOH", coefficient: 1 }] }];
+    const created = await must(ctx, "/pathways", { name: unique("locked"), states });
+    const id = created.pathway.id;
+    const url = `/api/v1/projects/${ctx.id}/pathways/${id}`;
+    const first = await api(url, { token: ctx.token, method: "PATCH", body: { name: unique("renamed"), version: 1 } });
+    expect(first.status).toBe(200);
+    const stale = await api(url, { token: ctx.token, method: "PATCH", body: { cycle: true, version: 1 } });
+    expect(stale.status).toBe(409);
+    expect(stale.body.error.current).toMatchObject({ id, version: 2, name: first.body.pathway.name });
+
+    const both = await Promise.all(
+      ["a", "b"].map((x) => api(url, { token: ctx.token, method: "PATCH", body: { name: unique(`race-${x}`), states: [...states].reverse(), version: 2 } })),
+    );
+    expect(both.map((r) => r.status).sort()).toEqual([200, 409]);
+    const winner = both.find((r) => r.status === 200)!;
+    const now = await get(ctx, `/pathways/${id}`);
+    expect(now.body.pathway.name).toBe(winner.body.pathway.name);
+
+    const history = await get(ctx, `/history?objectType=pathway&objectId=${id}`);
+    expect(history.body.history.map((h: { action: string }) => h.action)).toEqual(["update", "update", "create"]);
+    expect(history.body.history[1].oldValues).toMatchObject({ name: created.pathway.name });
+  });
+
   test("permissions: the viewer and the auditor read everything and change nothing; a non-member sees nothing", async () => {
     const reads = ["/reactions", `/reactions/${reactionId}`, `/reactions/${reactionId}/breakdown`, "/pathways", "/audit"];
     for (const path of reads) {
