@@ -101,7 +101,7 @@ export async function listLevels(projectId: number, tx?: Transaction) {
 }
 
 export async function getLevel(projectId: number, ref: Ref) {
-  return describeLevel(await resolveLevel(projectId, ref));
+  return describeLevel(await resolveLevel(projectId, ref, undefined, "levelId"));
 }
 
 /**

@@ -13,8 +13,12 @@ export type Ref = number | string;
 
 export function unknownRef(field: string, kind: string, ref: Ref, hint?: string): ServiceError {
   const message = `${kind} ${JSON.stringify(String(ref))} is not in this project${hint ? ` (${hint})` : ""}`;
+  // A reference from the URL (speciesId, levelId, …) names a resource that is not there: 404, as for
+  // reactions and calculations. A reference in the body is bad input: 422 naming the field.
+  if (PATH_FIELDS.has(field)) return new ServiceError(404, "not_found", message, [{ field, message }]);
   return new ServiceError(422, "unknown_reference", message, [{ field, message }]);
 }
+const PATH_FIELDS = new Set(["speciesId", "levelId", "protocolId", "conformerId"]);
 
 /** A 422 naming one field: the shape every ledger service uses for bad input. */
 export function invalidField(field: string, message: string, extra: Partial<ErrorDetail> = {}): ServiceError {

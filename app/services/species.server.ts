@@ -338,7 +338,8 @@ async function findConformer(species: Species, ref: Ref, tx?: Transaction, field
   const byId = id ? await Conformer.findOne({ where: { speciesId: species.id, id }, transaction: tx }) : null;
   if (byId) return byId;
   const message = `conformer ${JSON.stringify(String(ref))} is not a conformer of ${species.label}`;
-  throw new ServiceError(422, "unknown_reference", message, [{ field, message }]);
+  // From the URL: a resource that is not there (404); from a body: bad input naming the field (422).
+  throw new ServiceError(field === "conformerId" ? 404 : 422, field === "conformerId" ? "not_found" : "unknown_reference", message, [{ field, message }]);
 }
 export { findConformer as resolveConformer };
 

@@ -235,7 +235,13 @@ describe("permissions of every route", () => {
     expect((await call(p(`/calculations/${calc.id}`), editor, "DELETE")).status).toBe(204);
     expect((await call(p(`/protocols/${protocol.id}`), owner, "DELETE")).status).toBe(204);
     expect((await call(p(`/levels/${level.id}`), owner, "DELETE")).status).toBe(204);
-    expect((await call(p(`/levels/${level.id}`), owner)).status).toBe(422);
+    // Gone: the URL names nothing any more (404), while an unknown level in a body is bad input (422).
+    expect((await call(p(`/levels/${level.id}`), owner)).status).toBe(404);
+    expect((await call(p("/species/no-such-species"), owner)).status).toBe(404);
+    expect((await call(p("/protocols/no-such-protocol"), owner)).status).toBe(404);
+    const badRef = await call(p("/calculations"), owner, "POST", { species: "H2O", level: level.id, electronicEnergy: "-76.3" });
+    expect(badRef.status).toBe(422);
+    expect(badRef.body.error.details[0].field).toBe("level");
   });
 
   test("the pages answer members and hide nothing the server would allow", async () => {
