@@ -1,4 +1,4 @@
-import { Form } from "react-router";
+import { Form, Link } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/project-history";
 import { listHistory } from "~/services/history.server";
@@ -9,6 +9,7 @@ import { parseParams, parseSearchParams, positiveIntId } from "~/utils/http.serv
 const paramsSchema = z.object({ projectId: positiveIntId });
 const querySchema = z.object({
   objectType: z.string().max(40).optional().transform((v) => v || undefined),
+  objectId: z.union([z.literal(""), positiveIntId]).optional().transform((v) => (v ? Number(v) : undefined)),
   userId: z.union([z.literal(""), positiveIntId]).optional().transform((v) => (v ? Number(v) : undefined)),
 });
 
@@ -56,6 +57,14 @@ export default function History({ loaderData }: Route.ComponentProps) {
           </button>
         </Form>
       </div>
+      {filter.objectId && filter.objectType ? (
+        <p className="mb-2 text-sm" data-testid="history-object">
+          Changes of {filter.objectType} #{filter.objectId} only.{" "}
+          <Link className="link" to={`?objectType=${encodeURIComponent(filter.objectType)}`}>
+            Every {filter.objectType}
+          </Link>
+        </p>
+      ) : null}
       {entries.length === 0 ? (
         <p className="text-muted">No changes recorded for this filter.</p>
       ) : (
@@ -75,8 +84,14 @@ export default function History({ loaderData }: Route.ComponentProps) {
                 <td className="num whitespace-nowrap text-muted">{e.at.replace("T", " ").slice(0, 19)}</td>
                 <td className="whitespace-nowrap">{e.actor.replace(/ <.*>$/, "")}</td>
                 <td className="whitespace-nowrap">
-                  {e.action} {e.objectType}
-                  {e.objectId ? ` #${e.objectId}` : ""}
+                  {e.action}{" "}
+                  {e.objectId ? (
+                    <Link className="link" to={`?objectType=${encodeURIComponent(e.objectType)}&objectId=${e.objectId}`} title={`Every change of this ${e.objectType}`}>
+                      {e.objectType} #{e.objectId}
+                    </Link>
+                  ) : (
+                    e.objectType
+                  )}
                 </td>
                 <td>{e.summary}</td>
                 <td className="max-w-md">

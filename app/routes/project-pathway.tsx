@@ -122,14 +122,14 @@ export default function PathwayPage({ loaderData }: Route.ComponentProps) {
           </label>
           <label className="text-sm">
             <span className="label">Protocol</span>
-            <select className="input w-48" value={protocol} onChange={(e) => setProtocol(e.target.value)} aria-label="Protocol">
+            <select className="input w-auto min-w-48" value={protocol} onChange={(e) => setProtocol(e.target.value)} aria-label="Protocol">
               <option value="">pathway&apos;s own / default</option>
               {loaderData.protocols.map((p) => <option key={p.id} value={String(p.id)}>{p.name}</option>)}
             </select>
           </label>
           <label className="text-sm">
             <span className="label">Compare with</span>
-            <select className="input w-48" value={compare} onChange={(e) => setCompare(e.target.value)} aria-label="Compare with protocol" data-testid="compare-select">
+            <select className="input w-auto min-w-48" value={compare} onChange={(e) => setCompare(e.target.value)} aria-label="Compare with protocol" data-testid="compare-select">
               <option value="">—</option>
               {loaderData.protocols.map((p) => <option key={p.id} value={String(p.id)}>{p.name}</option>)}
             </select>
@@ -137,8 +137,8 @@ export default function PathwayPage({ loaderData }: Route.ComponentProps) {
         </div>
       </section>
 
-      <div className="grid gap-4 xl:grid-cols-[minmax(0,1fr)_380px]">
-        <section className="card self-start overflow-x-auto">
+      <div className="grid items-start gap-4 xl:grid-cols-[minmax(0,1fr)_380px]">
+        <section className="card overflow-x-auto">
           <div className="w-full" data-testid="profile" dangerouslySetInnerHTML={{ __html: svg }} />
           <div className="mt-2 flex flex-wrap gap-2">
             <a className="btn" href={svgHref} download={`${fileBase}.svg`} data-testid="download-svg">Download SVG</a>

@@ -83,7 +83,7 @@ export default function ReactionsPage({ loaderData }: Route.ComponentProps) {
           </label>
           <label className="text-sm">
             <span className="label">Protocol</span>
-            <select className="input w-56" value={protocol} onChange={(e) => setProtocol(e.target.value)} aria-label="Protocol" data-testid="protocol-select">
+            <select className="input w-auto min-w-56" value={protocol} onChange={(e) => setProtocol(e.target.value)} aria-label="Protocol" data-testid="protocol-select">
               <option value="">each row&apos;s own (else default)</option>
               {current.protocols.map((p) => (
                 <option key={p.id} value={String(p.id)}>
@@ -154,6 +154,8 @@ const VALUE_LABELS: Array<[keyof LedgerRow["values"], string]> = [
   ["deltaE", "ΔE"], ["deltaEZPE", "Δ(E+ZPE)"], ["deltaH", "ΔH"], ["deltaG", "ΔG"], ["barrierE", "ΔE‡"], ["barrierG", "ΔG‡"], ["rateConstant", "k"], ["equilibriumConstant", "K"],
 ];
 
+const CONTRIBUTIONS: Array<["E" | "EZPE" | "H" | "G", string]> = [["E", "ΔE"], ["EZPE", "Δ(E+ZPE)"], ["H", "ΔH"], ["G", "ΔG"]];
+
 function Breakdown({ projectId, reactionId, unit, protocol, onClose, canEdit, onChanged }: { projectId: number; reactionId: number; unit: string; protocol: string; onClose: () => void; canEdit: boolean; onChanged: () => void }) {
   const { data, error, isLoading } = useQuery({
     queryKey: ["reaction-breakdown", projectId, reactionId, unit, protocol],
@@ -205,14 +207,15 @@ function Breakdown({ projectId, reactionId, unit, protocol, onClose, canEdit, on
             <tbody>
               {VALUE_LABELS.map(([k, label]) => (
                 <tr key={k}>
-                  <th className="w-24 text-left">{label}</th>
+                  {/* normal-case: the table's headings are upper-cased, and k is not K. */}
+                  <th className="w-24 text-left normal-case">{label}</th>
                   <td className="num">
                     {data.reaction.values[k] === null ? (
                       <span className="text-muted" title={data.reaction.reasons[k]}>
                         — <span className="text-xs">{data.reaction.reasons[k]}</span>
                       </span>
                     ) : k === "rateConstant" ? (
-                      `${formatScientific(data.reaction.values[k])} ${data.reaction.rateConstantUnit}`
+                      `${formatScientific(data.reaction.values[k])} ${data.reaction.rateConstantUnit.replace(/\^-1/g, "⁻¹").replace(/\^-2/g, "⁻²")}`
                     ) : k === "equilibriumConstant" ? (
                       formatScientific(data.reaction.values[k])
                     ) : (
@@ -236,8 +239,9 @@ function Breakdown({ projectId, reactionId, unit, protocol, onClose, canEdit, on
                 E = {t.absoluteHartree.E ?? "—"} Eh; G = {t.absoluteHartree.G ?? "—"} Eh
               </div>
               {t.side !== "transition-state" ? (
-                <div className="num text-xs">
-                  contribution to ΔE {formatEnergyValue(t.contributionInUnit.E, data.unit)}, to ΔG {formatEnergyValue(t.contributionInUnit.G, data.unit)} {data.unit}
+                <div className="num text-xs" data-testid="term-contribution">
+                  contribution ({data.unit}):{" "}
+                  {CONTRIBUTIONS.map(([k, label]) => `${label} ${t.contributionInUnit[k] === null ? "—" : formatEnergyValue(t.contributionInUnit[k], data.unit)}`).join(" · ")}
                 </div>
               ) : null}
               {t.members.map((m, j) => (

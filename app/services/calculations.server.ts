@@ -490,7 +490,7 @@ cellFlagRules.push(({ calculations, species }) => {
   const groups = new Map<string, Calculation[]>();
   for (const c of calculations) {
     const key = `${c.speciesId}:${c.levelId}`;
-    if (!c.converged) push(out, key, { code: "not-converged", severity: "error", message: `Calculation #${c.id} is marked not converged` });
+    if (!c.converged) push(out, key, { code: "not-converged", severity: "warning", message: `Calculation #${c.id} is marked not converged` });
     if (c.electronicEnergyText && !c.electronicEnergyText.trim().startsWith("-")) {
       push(out, key, { code: "positive-energy", severity: "error", message: `Calculation #${c.id} has a non-negative electronic energy (${c.electronicEnergyText})` });
     }
