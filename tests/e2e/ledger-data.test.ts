@@ -76,6 +76,25 @@ describe("ledger grids in the browser", () => {
     expect(nh3.cells[String(levels[0])].energy).toBe("-56.5478");
   });
 
+  test("a cell that a reaction needs but that is empty is marked, and the grid numbers are right-aligned", async () => {
+    const post = (path: string, body: unknown) => api(`/api/v1/projects/${project.id}${path}`, { token: project.token, body });
+    // NH4OH has no calculation at all; the project's first protocol takes its energies from level 1.
+    await post("/protocols", { name: "needs level 1", energyLevel: levels[1] });
+    await post("/species", { label: "NH4OH", formula: "NH5O" });
+    await post("/reactions", { equation: "NH3 + H2O -> NH4OH" });
+    const page = chemist.page;
+    await open(page, `/projects/${project.id}/calculations`);
+    const cell = page.locator(`.ag-row[row-index='2'] .ag-cell[col-id='level-${levels[1]}']`);
+    await cell.waitFor();
+    await expect(cell.innerText()).resolves.toBe("missing");
+    await expect(cell.getAttribute("class")).resolves.toMatch(/bg-red-50/);
+    await expect(cell.getAttribute("class")).resolves.toMatch(/ag-right-aligned-cell/);
+    // A cell behind no error carries no mark.
+    const clean = page.locator(`.ag-row[row-index='0'] .ag-cell[col-id='level-${levels[0]}']`);
+    await expect(clean.getAttribute("class")).resolves.not.toMatch(/bg-red-50|bg-amber-50/);
+    await screenshot(page, "ledger-calculations-flags");
+  });
+
   test("the viewer sees the grids without any edit control", async () => {
     const viewer = await launchBrowser();
     try {

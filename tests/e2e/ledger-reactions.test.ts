@@ -45,6 +45,15 @@ describe("reactions ledger and pathway in the browser", () => {
     await expect(page.locator(".ag-header-cell[col-id='deltaE']").first().textContent()).resolves.toContain("kJ/mol");
     await expect(page.locator("[data-testid=safety-note]").textContent()).resolves.toContain("calorimetric");
     await screenshot(page, "ledger-reactions-kj");
+    // The protocol switch recomputes in place too: the demo's second protocol (1 M, quasi-RRHO) moves ΔG.
+    const g = page.locator(".ag-row[row-index='0'] .ag-cell[col-id='deltaG']");
+    const gBefore = (await g.textContent())!.trim();
+    const choice = await page.locator("[data-testid=protocol-select] option").evaluateAll((os) =>
+      (os as HTMLOptionElement[]).find((o) => o.textContent?.includes("solution 1 M"))?.value,
+    );
+    await page.selectOption("[data-testid=protocol-select]", choice!);
+    await expect.poll(async () => (await g.textContent())!.trim(), { timeout: 10000 }).not.toBe(gBefore);
+    expect(await page.evaluate(() => (window as unknown as { __noReload?: boolean }).__noReload)).toBe(true);
     // A row opens its breakdown.
     await page.locator(".ag-row[row-index='0'] .ag-cell[col-id='equation']").click();
     await page.locator("[data-testid=breakdown]").waitFor({ timeout: 10000 });
@@ -81,6 +90,11 @@ describe("reactions ledger and pathway in the browser", () => {
       const link = s.page.locator("[data-testid=audit-warning] a").first();
       const href = await link.getAttribute("href");
       expect(href).toMatch(new RegExp(`^/projects/${projectId}/`));
+      // Comments and acceptance are folded away under each finding; a click opens the forms.
+      const review = s.page.locator("[data-testid=finding-review]").first();
+      await expect(review.locator("input[aria-label=Accept]").isVisible()).resolves.toBe(false);
+      await review.locator("summary").click();
+      await expect(review.locator("input[aria-label=Accept]").isVisible()).resolves.toBe(true);
       await screenshot(s.page, "ledger-audit-supervisor");
       expect(s.foreignRequests).toEqual([]);
     } finally {
