@@ -11,20 +11,32 @@ const querySchema = z.object({
   objectType: z.string().max(40).optional().transform((v) => v || undefined),
   objectId: z.union([z.literal(""), positiveIntId]).optional().transform((v) => (v ? Number(v) : undefined)),
   userId: z.union([z.literal(""), positiveIntId]).optional().transform((v) => (v ? Number(v) : undefined)),
+  before: z.union([z.literal(""), positiveIntId]).optional().transform((v) => (v ? Number(v) : undefined)),
 });
+
+const PAGE_SIZE = 200;
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { projectId } = parseParams(params, paramsSchema);
   const { project } = await requireProject(request, projectId, "read");
   const filter = parseSearchParams(request.url, querySchema);
-  const [entries, members] = await Promise.all([listHistory(project.id, filter), listMembers(project.id)]);
-  return { entries, members, filter };
+  const [entries, members] = await Promise.all([listHistory(project.id, { ...filter, limit: PAGE_SIZE }), listMembers(project.id)]);
+  // Older entries page by id; the link carries the filter along.
+  const last = entries.at(-1);
+  const older = entries.length === PAGE_SIZE && last ? olderHref(request.url, last.id) : null;
+  return { entries, members, filter, older };
+}
+
+function olderHref(url: string, beforeId: number): string {
+  const u = new URL(url);
+  u.searchParams.set("before", String(beforeId));
+  return `${u.pathname}?${u.searchParams.toString()}`;
 }
 
 const OBJECT_TYPES = ["project", "membership", "species", "conformer", "level", "calculation", "protocol", "reaction", "pathway", "import", "snapshot", "share-link", "comment", "invitation"];
 
 export default function History({ loaderData }: Route.ComponentProps) {
-  const { entries, members, filter } = loaderData;
+  const { entries, members, filter, older } = loaderData;
   return (
     <section className="card">
       <div className="mb-3 flex flex-wrap items-end gap-3">
@@ -108,6 +120,10 @@ export default function History({ loaderData }: Route.ComponentProps) {
           </tbody>
         </table>
       )}
+      <div className="mt-3 flex gap-4 text-sm">
+        {filter.before ? <Link className="link" to="?">Newest changes</Link> : null}
+        {older ? <Link className="link" to={older}>Older changes</Link> : null}
+      </div>
     </section>
   );
 }

@@ -1,4 +1,4 @@
-import { Op, type Transaction } from "sequelize";
+import { Op, UniqueConstraintError, type Transaction } from "sequelize";
 import { ZodError } from "zod";
 import { db } from "../../db";
 import type { Project } from "../../db/models/foundation";
@@ -466,14 +466,22 @@ export async function importFile(project: Project, by: Principal, file: Uploaded
     return r;
   }
   const { sequelize } = db();
-  return sequelize.transaction(async (tx) => {
-    // Planned again inside the transaction so that what is written matches what was checked.
-    const p = await plan(project.id, parsed, tx);
-    const r = report(p, file, false, false);
-    if (r.problems.length) throw refused(r);
-    await commit(project.id, by, p, file, tx);
-    return { ...r, committed: true };
-  });
+  try {
+    return await sequelize.transaction(async (tx) => {
+      // Planned again inside the transaction so that what is written matches what was checked.
+      const p = await plan(project.id, parsed, tx);
+      const r = report(p, file, false, false);
+      if (r.problems.length) throw refused(r);
+      await commit(project.id, by, p, file, tx);
+      return { ...r, committed: true };
+    });
+  } catch (error) {
+    // Someone else stored the same new species or level between our check and our write.
+    if (error instanceof UniqueConstraintError) {
+      throw new ServiceError(409, "conflict", "Another change created some of the same species, levels or conformers while this file was being stored; nothing was stored — run the import again");
+    }
+    throw error;
+  }
 }
 
 async function commit(projectId: number, by: Principal, p: Plan, file: UploadedFile, tx: Transaction) {

@@ -139,8 +139,18 @@ export async function addMember(project: Project, by: Principal, input: z.input<
   });
 }
 
+/**
+ * The owners of a project, counted with their rows locked: two owners removing or demoting each other at
+ * the same moment queue up here, so the second sees that only one owner is left.
+ */
 async function ownerCount(projectId: number, transaction: import("sequelize").Transaction) {
-  return db().models.Membership.count({ where: { projectId, role: "owner" }, transaction });
+  const owners = await db().models.Membership.findAll({
+    where: { projectId, role: "owner" },
+    attributes: ["id"],
+    transaction,
+    lock: transaction.LOCK.UPDATE,
+  });
+  return owners.length;
 }
 
 export async function changeMemberRole(project: Project, by: Principal, membershipId: number, role: ProjectRole) {
