@@ -4,6 +4,7 @@ import type { Route } from "./+types/project-levels";
 import { Field, FormError, Notice } from "~/components/forms";
 import { useProject } from "~/components/use-project";
 import { createLevel, deleteLevel, listLevels, type LevelView } from "~/services/levels.server";
+import { expectedVersionOf } from "~/services/versioned.server";
 import { principalOf, requireProject } from "~/utils/guards.server";
 import { formFailure } from "~/utils/form-errors.server";
 import { parseParams, positiveIntId } from "~/utils/http.server";
@@ -24,7 +25,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const form = Object.fromEntries(await request.formData()) as Record<string, string>;
   try {
     if (form.intent === "delete") {
-      await deleteLevel(project, principalOf(user), form.levelId ?? "");
+      await deleteLevel(project, principalOf(user), form.levelId ?? "", expectedVersionOf(form));
       return { errors: {}, notice: "Level deleted" } satisfies ActionResult;
     }
     const solvation = form.solvationModel?.trim() || form.solvent?.trim() ? { model: form.solvationModel ?? "", solvent: form.solvent ?? "" } : null;
@@ -87,6 +88,7 @@ export default function LevelsPage({ loaderData, actionData }: Route.ComponentPr
                       <Form method="post" onSubmit={(e) => { if (!confirm(`Delete level ${l.name}?`)) e.preventDefault(); }}>
                         <input type="hidden" name="intent" value="delete" />
                         <input type="hidden" name="levelId" value={l.id} />
+                        <input type="hidden" name="version" value={l.version} />
                         <button type="submit" className="text-xs text-bad hover:underline" disabled={busy}>
                           Delete
                         </button>

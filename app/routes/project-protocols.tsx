@@ -6,6 +6,7 @@ import { useProject } from "~/components/use-project";
 import { listLevels } from "~/services/levels.server";
 import { createProtocol, deleteProtocol, listProtocols, protocolSettingsLine, setDefaultProtocol, updateProtocol, type ProtocolView } from "~/services/protocols.server";
 import { CONFORMER_TREATMENTS, LOW_FREQUENCY_TREATMENTS, STANDARD_STATES, THERMAL_SOURCES } from "~/utils/ledger-vocab";
+import { expectedVersionOf } from "~/services/versioned.server";
 import { principalOf, requireProject } from "~/utils/guards.server";
 import { formFailure } from "~/utils/form-errors.server";
 import { parseParams, positiveIntId } from "~/utils/http.server";
@@ -47,7 +48,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       return { errors: {}, notice: `${p.name} is now the default protocol` } satisfies ActionResult;
     }
     if (f.intent === "delete") {
-      await deleteProtocol(project, by, f.protocolId ?? "");
+      await deleteProtocol(project, by, f.protocolId ?? "", expectedVersionOf(f));
       return { errors: {}, notice: "Protocol deleted" } satisfies ActionResult;
     }
     if (f.intent === "update") {
@@ -152,6 +153,7 @@ export default function ProtocolsPage({ loaderData, actionData }: Route.Componen
                       <Form method="post" onSubmit={(e) => { if (!confirm(`Delete protocol ${p.name}?`)) e.preventDefault(); }}>
                         <input type="hidden" name="intent" value="delete" />
                         <input type="hidden" name="protocolId" value={p.id} />
+                        <input type="hidden" name="version" value={p.version} />
                         <button type="submit" className="text-bad hover:underline" disabled={busy}>
                           Delete
                         </button>

@@ -12,7 +12,7 @@ import { parseForm, parseParams, positiveIntId, ServiceError, serviceErrorToFiel
 const paramsSchema = z.object({ projectId: positiveIntId, speciesId: positiveIntId });
 const actionSchema = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("add-conformer"), label: z.string(), geometry: z.string().optional() }),
-  z.object({ intent: z.literal("delete-conformer"), conformerId: positiveIntId }),
+  z.object({ intent: z.literal("delete-conformer"), conformerId: positiveIntId, version: positiveIntId.optional() }),
 ]);
 
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -32,7 +32,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (!parsed.ok) return data({ errors: parsed.errors }, { status: 422 });
   try {
     if (parsed.data.intent === "add-conformer") await createConformer(project, principalOf(user), speciesId, { label: parsed.data.label, geometry: parsed.data.geometry });
-    else await deleteConformer(project, principalOf(user), speciesId, parsed.data.conformerId);
+    else await deleteConformer(project, principalOf(user), speciesId, parsed.data.conformerId, parsed.data.version);
     return { errors: {} as Record<string, string> };
   } catch (error) {
     if (error instanceof ServiceError) return data({ errors: serviceErrorToFields(error) }, { status: error.status });
@@ -159,6 +159,7 @@ export default function SpeciesDetail({ loaderData, actionData }: Route.Componen
                   <Form method="post" className="ml-auto" onSubmit={(e) => { if (!confirm(`Delete conformer ${c.label} and its calculations?`)) e.preventDefault(); }}>
                     <input type="hidden" name="intent" value="delete-conformer" />
                     <input type="hidden" name="conformerId" value={c.id} />
+                    <input type="hidden" name="version" value={c.version} />
                     <button className="text-xs text-bad hover:underline" type="submit" disabled={busy}>
                       Delete
                     </button>

@@ -73,7 +73,7 @@ export default function SpeciesPage({ loaderData }: Route.ComponentProps) {
         onDelete: async (row) => {
           if (!window.confirm(`Delete species ${row.label} with its conformers and calculations?`)) return;
           try {
-            await apiFetch(`/api/v1/projects/${projectId}/species/${row.id}`, { method: "DELETE" });
+            await apiFetch(`/api/v1/projects/${projectId}/species/${row.id}`, { method: "DELETE", body: { version: row.version } });
             setMessage({ kind: "ok", text: `Deleted ${row.label}` });
           } catch (error) {
             setMessage({ kind: "bad", text: describeApiError(error) });

@@ -10,7 +10,7 @@ import { optionalBool, refSchema, versionSchema } from "./ledger-input.server";
 import { levelName } from "./levels.server";
 import { invalidField, resolveLevel, resolveSpecies, type Ref } from "./refs.server";
 import { imaginaryCount, resolveConformer } from "./species.server";
-import { expectedVersionOf, updateVersioned } from "./versioned.server";
+import { assertVersion, expectedVersionOf, updateVersioned } from "./versioned.server";
 
 /** Hartree values arrive as decimal strings (kept exactly) or numbers. */
 const hartreeValue = z.union([z.string().trim().max(40, "At most 40 characters"), z.number()], { message: "must be a decimal number in hartree" });
@@ -268,10 +268,12 @@ export async function updateCalculation(project: Project, by: Principal, ref: Re
   });
 }
 
-export async function deleteCalculation(project: Project, by: Principal, ref: Ref) {
+/** Deletes a calculation; with `version`, only if it is still the one the caller saw (else 409 with the current values). */
+export async function deleteCalculation(project: Project, by: Principal, ref: Ref, version?: number) {
   const { sequelize } = db();
   await sequelize.transaction(async (transaction) => {
     const c = await findCalculation(project.id, ref, transaction);
+    await assertVersion(transaction, c, version, "calculation", undefined, "decide again");
     const old = snapshotOf(c);
     await c.destroy({ transaction });
     await recordChange(transaction, by, { projectId: project.id, action: "delete", objectType: "calculation", objectId: c.id, summary: `Deleted calculation #${c.id}`, oldValues: old });

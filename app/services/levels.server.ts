@@ -9,7 +9,7 @@ import {
 import { ServiceError } from "../utils/http.server";
 import { recordChange, snapshotOf, type Principal } from "./history.server";
 import { fromThermo, resolveLevel, type Ref } from "./refs.server";
-import { expectedVersionOf, updateVersioned } from "./versioned.server";
+import { assertVersion, expectedVersionOf, updateVersioned } from "./versioned.server";
 
 const text = (max: number) => z.string().trim().max(max, `At most ${max} characters`);
 
@@ -157,11 +157,15 @@ export async function updateLevel(project: Project, by: Principal, ref: Ref, inp
   });
 }
 
-/** Deletes a level no calculation or protocol uses (those would lose their meaning). */
-export async function deleteLevel(project: Project, by: Principal, ref: Ref) {
+/**
+ * Deletes a level no calculation or protocol uses (those would lose their meaning); with `version`, only
+ * if it is still the one the caller saw (else 409 with the current values).
+ */
+export async function deleteLevel(project: Project, by: Principal, ref: Ref, version?: number) {
   const { sequelize, models } = db();
   await sequelize.transaction(async (transaction) => {
     const level = await resolveLevel(project.id, ref, transaction, "levelId");
+    await assertVersion(transaction, level, version, "level", undefined, "decide again");
     const [calcs, protocols] = await Promise.all([
       models.Calculation.count({ where: { levelId: level.id }, transaction }),
       models.Protocol.count({ where: { projectId: project.id, [Op.or]: [{ energyLevelId: level.id }, { thermalLevelId: level.id }] }, transaction }),

@@ -8,7 +8,7 @@ import { recordChange, snapshotOf, type Principal } from "./history.server";
 import { optionalBool, refSchema, versionSchema } from "./ledger-input.server";
 import { resolveProtocol, type Ref } from "./refs.server";
 import { computePathway } from "./ledger-compute.server";
-import { expectedVersionOf, updateVersioned } from "./versioned.server";
+import { assertVersion, expectedVersionOf, updateVersioned } from "./versioned.server";
 
 /**
  * Pathways: ordered states, each a sum of species with coefficients, drawn against the reference state
@@ -206,9 +206,7 @@ export async function deletePathway(project: Project, by: Principal, pathwayId: 
   const { sequelize, models } = db();
   await sequelize.transaction(async (transaction) => {
     const p = await findPathway(project.id, pathwayId, transaction);
-    if (version !== undefined && version !== p.version) {
-      await updateVersioned(transaction, by, p, version, {}, { projectId: project.id, objectType: "pathway", summary: "" });
-    }
+    await assertVersion(transaction, p, version, "pathway", undefined, "decide again");
     const old = snapshotOf(p);
     await writeStates(transaction, p.id, []);
     await p.destroy({ transaction });

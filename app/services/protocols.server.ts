@@ -10,7 +10,7 @@ import { recordChange, snapshotOf, type Principal } from "./history.server";
 import { optionalNumber, refSchema, versionSchema } from "./ledger-input.server";
 import { levelName, levelParts } from "./levels.server";
 import { resolveLevel, resolveProtocol, type Ref } from "./refs.server";
-import { expectedVersionOf, updateVersioned } from "./versioned.server";
+import { assertVersion, expectedVersionOf, updateVersioned } from "./versioned.server";
 
 export { CONFORMER_TREATMENTS, LOW_FREQUENCY_TREATMENTS, STANDARD_STATES, THERMAL_SOURCES };
 
@@ -186,11 +186,15 @@ export async function setDefaultProtocol(project: Project, by: Principal, ref: R
   });
 }
 
-/** Deletes a protocol; reactions and pathways that named it fall back to the default; a deleted default passes to the oldest remaining protocol. */
-export async function deleteProtocol(project: Project, by: Principal, ref: Ref) {
+/**
+ * Deletes a protocol; reactions and pathways that named it fall back to the default; a deleted default
+ * passes to the oldest remaining protocol. With `version`, only if it is still the one the caller saw.
+ */
+export async function deleteProtocol(project: Project, by: Principal, ref: Ref, version?: number) {
   const { sequelize, models } = db();
   await sequelize.transaction(async (transaction) => {
     const p = await resolveProtocol(project.id, ref, transaction, "protocolId");
+    await assertVersion(transaction, p, version, "protocol", undefined, "decide again");
     const old = snapshotOf(p);
     await p.destroy({ transaction });
     await recordChange(transaction, by, { projectId: project.id, action: "delete", objectType: "protocol", objectId: p.id, summary: `Deleted protocol ${p.name}`, oldValues: old });

@@ -9,7 +9,7 @@ import { recordChange, snapshotOf, type Principal } from "./history.server";
 import { refSchema, versionSchema } from "./ledger-input.server";
 import { fromThermo, resolveProtocol, resolveSpecies, type Ref } from "./refs.server";
 import { computeReactions } from "./ledger-compute.server";
-import { expectedVersionOf, updateVersioned } from "./versioned.server";
+import { assertVersion, expectedVersionOf, updateVersioned } from "./versioned.server";
 
 /**
  * Reactions: an equation over the project's species (`A + 2 B -> C`, also →), an optional transition
@@ -157,9 +157,7 @@ export async function deleteReaction(project: Project, by: Principal, reactionId
   const { sequelize, models } = db();
   await sequelize.transaction(async (transaction) => {
     const r = await findReaction(project.id, reactionId, transaction);
-    if (version !== undefined && version !== r.version) {
-      await updateVersioned(transaction, by, r, version, {}, { projectId: project.id, objectType: "reaction", summary: "" });
-    }
+    await assertVersion(transaction, r, version, "reaction", undefined, "decide again");
     const old = { ...snapshotOf(r), ...(await extrasOf(r, transaction)) };
     await models.ReactionTerm.destroy({ where: { reactionId: r.id }, transaction });
     await r.destroy({ transaction });

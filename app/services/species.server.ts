@@ -11,7 +11,7 @@ import { SPECIES_KINDS } from "../utils/ledger-vocab";
 import { parseJsonColumn, recordChange, snapshotOf, type Principal } from "./history.server";
 import { nullableText, optionalInt, optionalNumber, versionSchema } from "./ledger-input.server";
 import { fromThermo, invalidField, resolveSpecies, type Ref } from "./refs.server";
-import { expectedVersionOf, updateVersioned } from "./versioned.server";
+import { assertVersion, expectedVersionOf, updateVersioned } from "./versioned.server";
 
 export { SPECIES_KINDS };
 
@@ -301,11 +301,15 @@ export async function updateSpecies(project: Project, by: Principal, ref: Ref, i
   });
 }
 
-/** Deletes a species with its conformers and calculations, unless a reaction or pathway uses it. */
-export async function deleteSpecies(project: Project, by: Principal, ref: Ref) {
+/**
+ * Deletes a species with its conformers and calculations, unless a reaction or pathway uses it; with
+ * `version`, only if it is still the one the caller saw (else 409 with the current values).
+ */
+export async function deleteSpecies(project: Project, by: Principal, ref: Ref, version?: number) {
   const { sequelize, models } = db();
   await sequelize.transaction(async (transaction) => {
     const s = await resolveSpecies(project.id, ref, transaction, "speciesId");
+    await assertVersion(transaction, s, version, "species", undefined, "decide again");
     const [terms, asTs, states] = await Promise.all([
       models.ReactionTerm.count({ where: { speciesId: s.id }, transaction }),
       models.Reaction.count({ where: { transitionStateId: s.id }, transaction }),
@@ -385,11 +389,12 @@ export async function updateConformer(project: Project, by: Principal, speciesRe
   });
 }
 
-export async function deleteConformer(project: Project, by: Principal, speciesRef: Ref, conformerRef: Ref) {
+export async function deleteConformer(project: Project, by: Principal, speciesRef: Ref, conformerRef: Ref, version?: number) {
   const { sequelize } = db();
   await sequelize.transaction(async (transaction) => {
     const s = await resolveSpecies(project.id, speciesRef, transaction, "speciesId");
     const c = await findConformer(s, conformerRef, transaction, "conformerId");
+    await assertVersion(transaction, c, version, "conformer", undefined, "decide again");
     const old = snapshotOf(c);
     await c.destroy({ transaction });
     await recordChange(transaction, by, {

@@ -1,5 +1,6 @@
 import type { Model, Transaction } from "sequelize";
-import { ServiceError } from "../utils/http.server";
+import { z } from "zod";
+import { parseJsonBody, ServiceError } from "../utils/http.server";
 import { recordChange, snapshotOf, type Principal } from "./history.server";
 
 /**
@@ -15,18 +16,7 @@ export async function updateVersioned<M extends Model & { version: number; id: n
   changes: Partial<M["_attributes"]>,
   history: { projectId: number; objectType: string; summary: string; omit?: string[] },
 ): Promise<M> {
-  // Re-read under a row lock: two edits of the same version that arrive together are then serialised,
-  // and the second one sees the first one's version and is refused instead of overwriting it.
-  await row.reload({ transaction: tx, lock: tx.LOCK.UPDATE });
-  if (expectedVersion !== undefined && expectedVersion !== row.version) {
-    throw new ServiceError(
-      409,
-      "stale_version",
-      `This ${history.objectType} was changed by someone else (your version ${expectedVersion}, current ${row.version}); reload and apply your edit again`,
-      [],
-      { current: snapshotOf(row, history.omit) },
-    );
-  }
+  await assertVersion(tx, row, expectedVersion, history.objectType, history.omit, "apply your edit again");
   const old = snapshotOf(row, history.omit);
   await row.update({ ...changes, version: row.version + 1 } as never, { transaction: tx });
   const now = snapshotOf(row, history.omit);
@@ -49,6 +39,41 @@ export async function updateVersioned<M extends Model & { version: number; id: n
     newValues: changedNew,
   });
   return row;
+}
+
+/**
+ * Re-reads the row under a lock and refuses (409, `stale_version`, with the current values) when it has
+ * moved on from the version the caller saw. The lock serialises two requests based on the same version,
+ * so the second one sees the first one's change and is refused. Without an expected version (scripts)
+ * it only locks. Edits and deletes share it.
+ */
+export async function assertVersion<M extends Model & { version: number }>(
+  tx: Transaction,
+  row: M,
+  expectedVersion: number | undefined,
+  objectType: string,
+  omit?: string[],
+  retry = "try again",
+): Promise<void> {
+  await row.reload({ transaction: tx, lock: tx.LOCK.UPDATE });
+  if (expectedVersion !== undefined && expectedVersion !== row.version) {
+    throw new ServiceError(
+      409,
+      "stale_version",
+      `This ${objectType} was changed by someone else (your version ${expectedVersion}, current ${row.version}); reload and ${retry}`,
+      [],
+      { current: snapshotOf(row, omit) },
+    );
+  }
+}
+
+/**
+ * The version a DELETE was based on: `?version=N` or a JSON body `{"version": N}`; none when neither
+ * is given (a delete from a script still works).
+ */
+export async function expectedVersionOfDelete(request: Request): Promise<number | undefined> {
+  const body = await parseJsonBody(request, z.object({ version: z.unknown().optional() }));
+  return expectedVersionOf({ version: body.version ?? new URL(request.url).searchParams.get("version") });
 }
 
 /** Reads an optional `version` from an edit, accepting numbers and numeric strings. */

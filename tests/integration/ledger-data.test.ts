@@ -144,6 +144,70 @@ describe("optimistic locking and history", () => {
   });
 });
 
+describe("deletes based on a stale view", () => {
+  /** One object of each kind, created and then edited once, so that version 1 is stale and 2 is current. */
+  async function setUp(basis: string) {
+    const tag = unique("d").replace(/-/g, "");
+    const level = (await call(p("/levels"), owner, "POST", { method: "M06-2X", basis })).body.level;
+    expect(level.version).toBe(1);
+    const species = (await call(p("/species"), owner, "POST", { label: `HF${tag}`, formula: "HF" })).body.species;
+    const conformer = (await call(p(`/species/${species.id}/conformers`), owner, "POST", { label: "c1" })).body.conformer;
+    const calc = (await call(p("/calculations"), owner, "POST", { species: species.id, level: level.id, electronicEnergy: "-100.4" })).body.calculation;
+    const protocol = (await call(p("/protocols"), owner, "POST", { name: `pr${tag}`, energyLevel: level.id })).body.protocol;
+    const items = [
+      { type: "calculation", id: calc.id, path: p(`/calculations/${calc.id}`), read: p(`/calculations/${calc.id}`), edit: { electronicEnergy: "-100.41" } },
+      { type: "protocol", id: protocol.id, path: p(`/protocols/${protocol.id}`), read: p(`/protocols/${protocol.id}`), edit: { temperature: 310 } },
+      { type: "conformer", id: conformer.id, path: p(`/species/${species.id}/conformers/${conformer.id}`), read: p(`/species/${species.id}/conformers`), edit: { label: "c1a" } },
+      { type: "species", id: species.id, path: p(`/species/${species.id}`), read: p(`/species/${species.id}`), edit: { notes: "edited" } },
+      { type: "level", id: level.id, path: p(`/levels/${level.id}`), read: p(`/levels/${level.id}`), edit: { method: "M06-2X", basis } },
+    ];
+    for (const it of items) {
+      const edited = await call(it.path, editor, "PATCH", { ...it.edit, version: 1 });
+      expect(edited.status, `${it.type} ${JSON.stringify(edited.body)}`).toBe(200);
+    }
+    return items;
+  }
+  const stillThere = async (it: { type: string; id: number; read: string }) => {
+    const res = await call(it.read, owner);
+    if (it.type !== "conformer") return res.status === 200;
+    return (res.body.conformers as { id: number }[]).some((c) => c.id === it.id);
+  };
+
+  test("a stale version is refused with 409 and the current values, and nothing is deleted", async () => {
+    for (const [i, it] of (await setUp("def2-TZVPP")).entries()) {
+      // Half of them send the version in the query, half in a JSON body: both are accepted.
+      const stale = i % 2 ? await call(`${it.path}?version=1`, owner, "DELETE") : await call(it.path, owner, "DELETE", { version: 1 });
+      expect(stale.status, it.type).toBe(409);
+      expect(stale.body.error.code, it.type).toBe("stale_version");
+      expect(stale.body.error.current, it.type).toMatchObject({ id: it.id, version: 2 });
+      expect(await stillThere(it), it.type).toBe(true);
+      const history = await call(p(`/history?objectType=${it.type}&objectId=${it.id}`), owner);
+      expect(history.body.history.map((h: { action: string }) => h.action), it.type).not.toContain("delete");
+    }
+  });
+
+  test("the current version deletes, with a history row holding the old values; a bad version is bad input", async () => {
+    const items = await setUp("def2-QZVP");
+    const bad = await call(`${items[0]!.path}?version=abc`, owner, "DELETE");
+    expect(bad.status).toBe(422);
+    expect(bad.body.error.details[0].field).toBe("version");
+    for (const [i, it] of items.entries()) {
+      const del = i % 2 ? await call(`${it.path}?version=2`, editor, "DELETE") : await call(it.path, editor, "DELETE", { version: 2 });
+      expect(del.status, `${it.type} ${JSON.stringify(del.body)}`).toBe(204);
+      expect(await stillThere(it), it.type).toBe(false);
+      const history = await call(p(`/history?objectType=${it.type}&objectId=${it.id}`), owner);
+      expect(history.body.history[0], it.type).toMatchObject({ action: "delete", oldValues: expect.objectContaining({ id: it.id, version: 2 }) });
+    }
+  });
+
+  test("without a version a delete still works (scripts)", async () => {
+    const species = (await call(p("/species"), owner, "POST", { label: unique("Ne").replace(/-/g, ""), formula: "Ne" })).body.species;
+    await call(p(`/species/${species.id}`), owner, "PATCH", { notes: "moved on", version: 1 });
+    expect((await call(p(`/species/${species.id}`), owner, "DELETE")).status).toBe(204);
+    expect((await call(p(`/species/${species.id}`), owner)).status).toBe(404);
+  });
+});
+
 describe("the calculations grid", () => {
   test("a block with one bad cell stores nothing and lists the cell; a good block stores every cell", async () => {
     await call(p("/species"), owner, "POST", { label: "CO", formula: "CO" });
@@ -242,6 +306,33 @@ describe("permissions of every route", () => {
     const badRef = await call(p("/calculations"), owner, "POST", { species: "H2O", level: level.id, electronicEnergy: "-76.3" });
     expect(badRef.status).toBe(422);
     expect(badRef.body.error.details[0].field).toBe("level");
+  });
+
+  test("per-item routes of species and conformers: PATCH and DELETE", async () => {
+    const species = (await call(p("/species"), owner, "POST", { label: unique("Ar").replace(/-/g, ""), formula: "Ar" })).body.species;
+    const conformer = (await call(p(`/species/${species.id}/conformers`), owner, "POST", { label: "c1" })).body.conformer;
+    const speciesPath = p(`/species/${species.id}`);
+    const conformerPath = p(`/species/${species.id}/conformers/${conformer.id}`);
+    for (const [path, body] of [
+      [conformerPath, { label: "c2", version: conformer.version }],
+      [speciesPath, { notes: "noble", version: species.version }],
+    ] as const) {
+      for (const who of [auditor, viewer]) {
+        expect((await call(path, who, "PATCH", body)).status, path).toBe(403);
+        expect((await call(path, who, "DELETE")).status, path).toBe(403);
+      }
+      expect((await call(path, stranger, "PATCH", body)).status, path).toBe(404);
+      expect((await call(path, stranger, "DELETE")).status, path).toBe(404);
+      expect((await call(path, {}, "PATCH", body)).status, path).toBe(401);
+      expect((await call(path, {}, "DELETE")).status, path).toBe(401);
+      expect((await call(path, editor, "PATCH", body)).status, path).toBe(200);
+      expect((await call(path, editor, "PATCH", body)).status, path).toBe(409);
+    }
+    // Nothing the refused requests asked for happened.
+    const conformers = (await call(p(`/species/${species.id}/conformers`), owner)).body.conformers as { id: number; label: string }[];
+    expect(conformers).toEqual([expect.objectContaining({ id: conformer.id, label: "c2" })]);
+    expect((await call(conformerPath, editor, "DELETE")).status).toBe(204);
+    expect((await call(speciesPath, editor, "DELETE")).status).toBe(204);
   });
 
   test("the pages answer members and hide nothing the server would allow", async () => {

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import type { Route } from "./+types/calculation";
 import { calculationUpdateSchema, deleteCalculation, getCalculation, updateCalculation } from "~/services/calculations.server";
+import { expectedVersionOfDelete } from "~/services/versioned.server";
 import { principalOf, requireProject } from "~/utils/guards.server";
 import { apiRoute, errorResponse, parseJsonBody, parseParams, positiveIntId } from "~/utils/http.server";
 
@@ -20,7 +21,7 @@ export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => 
     return Response.json({ calculation: await updateCalculation(project, principalOf(user), itemId, body) });
   }
   if (request.method === "DELETE") {
-    await deleteCalculation(project, principalOf(user), itemId);
+    await deleteCalculation(project, principalOf(user), itemId, await expectedVersionOfDelete(request));
     return new Response(null, { status: 204 });
   }
   return errorResponse(405, "method_not_allowed", "Use PATCH or DELETE");

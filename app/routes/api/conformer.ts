@@ -1,6 +1,7 @@
 import { z } from "zod";
 import type { Route } from "./+types/conformer";
 import { conformerUpdateSchema, deleteConformer, updateConformer } from "~/services/species.server";
+import { expectedVersionOfDelete } from "~/services/versioned.server";
 import { principalOf, requireProject } from "~/utils/guards.server";
 import { apiRoute, errorResponse, parseJsonBody, parseParams, positiveIntId } from "~/utils/http.server";
 
@@ -16,7 +17,7 @@ export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => 
     return Response.json({ conformer: await updateConformer(project, principalOf(user), itemId, conformerId, body) });
   }
   if (request.method === "DELETE") {
-    await deleteConformer(project, principalOf(user), itemId, conformerId);
+    await deleteConformer(project, principalOf(user), itemId, conformerId, await expectedVersionOfDelete(request));
     return new Response(null, { status: 204 });
   }
   return errorResponse(405, "method_not_allowed", "Use PATCH or DELETE");

@@ -2,7 +2,7 @@ import { z } from "zod";
 import type { Route } from "./+types/pathway";
 import { computePathway } from "~/services/ledger-compute.server";
 import { deletePathway, pathwayUpdateSchema, updatePathway } from "~/services/pathways.server";
-import { expectedVersionOf } from "~/services/versioned.server";
+import { expectedVersionOfDelete } from "~/services/versioned.server";
 import { principalOf, requireProject } from "~/utils/guards.server";
 import { apiRoute, errorResponse, parseJsonBody, parseParams, parseSearchParams, positiveIntId } from "~/utils/http.server";
 
@@ -25,8 +25,7 @@ export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => 
     return Response.json({ pathway: await updatePathway(project, principalOf(user), pathwayId, body) });
   }
   if (request.method === "DELETE") {
-    const body = await parseJsonBody(request, z.object({ version: z.unknown().optional() }));
-    const version = expectedVersionOf({ version: body.version ?? new URL(request.url).searchParams.get("version") });
+    const version = await expectedVersionOfDelete(request);
     await deletePathway(project, principalOf(user), pathwayId, version);
     return new Response(null, { status: 204 });
   }

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import type { Route } from "./+types/protocol";
 import { deleteProtocol, getProtocol, protocolUpdateSchema, setDefaultProtocol, updateProtocol } from "~/services/protocols.server";
+import { expectedVersionOfDelete } from "~/services/versioned.server";
 import { principalOf, requireProject } from "~/utils/guards.server";
 import { apiRoute, errorResponse, parseJsonBody, parseParams, positiveIntId } from "~/utils/http.server";
 
@@ -24,7 +25,7 @@ export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => 
     return Response.json({ protocol });
   }
   if (request.method === "DELETE") {
-    await deleteProtocol(project, principalOf(user), itemId);
+    await deleteProtocol(project, principalOf(user), itemId, await expectedVersionOfDelete(request));
     return new Response(null, { status: 204 });
   }
   return errorResponse(405, "method_not_allowed", "Use PATCH or DELETE");

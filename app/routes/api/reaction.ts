@@ -1,7 +1,7 @@
 import { z } from "zod";
 import type { Route } from "./+types/reaction";
 import { deleteReaction, getReaction, reactionUpdateSchema, updateReaction } from "~/services/reactions.server";
-import { expectedVersionOf } from "~/services/versioned.server";
+import { expectedVersionOfDelete } from "~/services/versioned.server";
 import { principalOf, requireProject } from "~/utils/guards.server";
 import { apiRoute, errorResponse, parseJsonBody, parseParams, positiveIntId } from "~/utils/http.server";
 
@@ -22,8 +22,7 @@ export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => 
     return Response.json({ reaction: await updateReaction(project, principalOf(user), reactionId, body) });
   }
   if (request.method === "DELETE") {
-    const body = await parseJsonBody(request, z.object({ version: z.unknown().optional() }));
-    const version = expectedVersionOf({ version: body.version ?? new URL(request.url).searchParams.get("version") });
+    const version = await expectedVersionOfDelete(request);
     await deleteReaction(project, principalOf(user), reactionId, version);
     return new Response(null, { status: 204 });
   }
