@@ -4,7 +4,7 @@ import type { Route } from "./+types/project-species-detail";
 import { Field, FormError } from "~/components/forms";
 import { formatCharge, formatKind, formatMultiplicity } from "~/components/grids/format";
 import { useProject } from "~/components/use-project";
-import { listCalculations } from "~/services/calculations.server";
+import { listCalculationsWithAuthors } from "~/services/calculations.server";
 import { createConformer, deleteConformer, getSpecies } from "~/services/species.server";
 import { principalOf, requireProject } from "~/utils/guards.server";
 import { parseForm, parseParams, positiveIntId, ServiceError, serviceErrorToFields } from "~/utils/http.server";
@@ -22,7 +22,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     if (error instanceof ServiceError) throw data({ error: { message: "No such species in this project" } }, { status: 404 });
     throw error;
   });
-  return { species, calculations: await listCalculations(project.id, { species: String(species.id) }) };
+  return { species, calculations: await listCalculationsWithAuthors(project.id, { species: String(species.id) }) };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -42,6 +42,25 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.species.label ?? "Species"} · Thermotally` }];
+
+/** "2025-03-04 09:12 UTC" from a stored ISO timestamp. */
+const utc = (iso: string) => `${iso.replace("T", " ").slice(0, 16)} UTC`;
+
+/** Who stored a calculation and when, and who last changed it when that was a later edit. */
+function StoredBy({ c }: { c: { createdByName: string | null; updatedByName: string | null; createdAt: string; updatedAt: string; version: number } }) {
+  const changed = c.version > 1 || c.updatedAt !== c.createdAt;
+  return (
+    <span data-testid="calculation-stored-by">
+      {`by ${c.createdByName ?? "unknown"}, ${utc(c.createdAt)}`}
+      {changed ? (
+        <>
+          <br />
+          {`updated by ${c.updatedByName ?? "unknown"}, ${utc(c.updatedAt)}`}
+        </>
+      ) : null}
+    </span>
+  );
+}
 
 function Frequencies({ list }: { list: number[] }) {
   return (
@@ -100,6 +119,7 @@ export default function SpeciesDetail({ loaderData, actionData }: Route.Componen
                 <th>Thermal corrections (hartree)</th>
                 <th>Frequencies (cm⁻¹; imaginary in red)</th>
                 <th>Source</th>
+                <th>Stored</th>
               </tr>
             </thead>
             <tbody>
@@ -127,6 +147,9 @@ export default function SpeciesDetail({ loaderData, actionData }: Route.Componen
                     )}
                   </td>
                   <td className="text-xs text-muted">{c.source || "—"}</td>
+                  <td className="whitespace-nowrap text-xs text-muted">
+                    <StoredBy c={c} />
+                  </td>
                 </tr>
               ))}
             </tbody>

@@ -173,6 +173,19 @@ export async function listCalculations(projectId: number, filter: z.infer<typeof
   return rows.map(describeWith(maps));
 }
 
+/**
+ * The calculations of a filter with the names of who stored and who last changed each one (the users
+ * are read in one query); null when not recorded.
+ */
+export async function listCalculationsWithAuthors(projectId: number, filter: z.infer<typeof calculationFilterSchema> = {}) {
+  const calcs = await listCalculations(projectId, filter);
+  const ids = [...new Set(calcs.flatMap((c) => [c.createdBy, c.updatedBy]).filter((id): id is number => id !== null))];
+  const users = ids.length ? await db().models.User.findAll({ where: { id: { [Op.in]: ids } }, attributes: ["id", "name"] }) : [];
+  const names = new Map(users.map((u) => [u.id, u.name]));
+  const nameOf = (id: number | null) => (id === null ? null : (names.get(id) ?? null));
+  return calcs.map((c) => ({ ...c, createdByName: nameOf(c.createdBy), updatedByName: nameOf(c.updatedBy) }));
+}
+
 async function findCalculation(projectId: number, ref: Ref, tx?: Transaction) {
   const id = typeof ref === "number" ? ref : /^\d+$/.test(ref) ? Number(ref) : null;
   const c = id ? await db().models.Calculation.findOne({ where: { projectId, id }, transaction: tx }) : null;

@@ -208,6 +208,39 @@ describe("deletes based on a stale view", () => {
   });
 });
 
+describe("the species page", () => {
+  test("shows who stored each calculation and when, and who last updated it when that was a later edit", async () => {
+    const name = `Ines Quarles ${unique("q")}`;
+    const email = `${unique("storer")}@example.test`;
+    const storer = { cookie: await signUp(email, undefined, name) };
+    const added = await fetch(`${BASE_URL}/projects/${projectId}/members`, {
+      method: "POST",
+      body: new URLSearchParams({ intent: "add", email, role: "editor" }),
+      headers: { Authorization: `Bearer ${owner.token}`, "Content-Type": "application/x-www-form-urlencoded" },
+      redirect: "manual",
+    });
+    expect(added.status).toBeLessThan(400);
+    const species = (await call(p("/species"), storer, "POST", { label: unique("Kr").replace(/-/g, ""), formula: "Kr" })).body.species;
+    const levels = (await call(p("/levels"), owner)).body.levels as { id: number }[];
+    const kept = (await call(p("/calculations"), storer, "POST", { species: species.id, level: levels[0]!.id, electronicEnergy: "-2752.1" })).body.calculation;
+    const made = (await call(p("/calculations"), storer, "POST", { species: species.id, level: levels[1]!.id, electronicEnergy: "-2752.2" })).body.calculation;
+    const changed = await call(p(`/calculations/${made.id}`), editor, "PATCH", { electronicEnergy: "-2752.25", version: made.version });
+    expect(changed.status).toBe(200);
+
+    const res = await fetch(`${BASE_URL}/projects/${projectId}/species/${species.id}`, { headers: { Authorization: `Bearer ${viewer.token}` } });
+    expect(res.status).toBe(200);
+    const html = await res.text();
+    // "YYYY-MM-DD HH:MM UTC" from the stored ISO 8601 timestamps the API reports.
+    const utc = (iso: string) => `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC`;
+    expect(html).toContain(`by ${name}, ${utc(kept.createdAt)}`);
+    expect(html).toContain(`by ${name}, ${utc(made.createdAt)}`);
+    // The editor signed up under the helper's default name.
+    expect(html).toContain(`updated by Test Person, ${utc(changed.body.calculation.updatedAt)}`);
+    expect(html.match(/data-testid="calculation-stored-by"/g)).toHaveLength(2);
+    expect(html.match(/updated by /g)).toHaveLength(1);
+  });
+});
+
 describe("the calculations grid", () => {
   test("a block with one bad cell stores nothing and lists the cell; a good block stores every cell", async () => {
     await call(p("/species"), owner, "POST", { label: "CO", formula: "CO" });
