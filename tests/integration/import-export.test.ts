@@ -150,6 +150,35 @@ describe("import: QCSchema and XYZ", () => {
     expect(Number(lines[3].trim().split(/\s+/)[3])).toBeCloseTo(2.1864 * BOHR_A, 5);
   });
 
+  test("a semiempirical result without a basis and with ghost atoms: stored at the method's built-in basis, ghosts left out", async () => {
+    const p = await newProject();
+    const result = {
+      schema_name: "qcschema_output",
+      schema_version: 1,
+      driver: "energy",
+      model: { method: "GFN2-xTB", basis: "" },
+      molecule: {
+        schema_name: "qcschema_molecule",
+        schema_version: 2,
+        name: "water",
+        symbols: ["O", "H", "H", "Ne"],
+        geometry: [0, 0, -0.1294, 0, -1.4941, 1.0274, 0, 1.4941, 1.0274, 0, 0, 6],
+        real: [true, true, true, false],
+      },
+      // GFN2-xTB total energy of water, about -5.07 hartree (from memory).
+      return_result: -5.0705443,
+      success: true,
+    };
+    const r = await upload(`/api/v1/projects/${p.id}/imports`, p.token, "water-xtb.json", JSON.stringify(result), "application/json");
+    expect(r.status, JSON.stringify(r.body)).toBe(201);
+    const state = await ledgerState(p.id, p.token);
+    expect(state.levels.map((l: any) => l.name)).toEqual(["GFN2-xTB/built-in"]);
+    expect(state.species.map((s: any) => [s.label, s.formula])).toEqual([["water", "H2O"]]);
+    expect(state.calculations[0].source).toMatch(/1 ghost atom left out/);
+    const sp = await api(`/api/v1/projects/${p.id}/species/water`, { token: p.token });
+    expect(sp.body.species.geometry.data.trim().split("\n")[0].trim()).toBe("3");
+  });
+
   test("a multi-frame XYZ file becomes conformers of one species", async () => {
     const p = await newProject();
     const frame = (n: number, z: number) => `3\nspecies=water conformer=w${n}\nO 0.0 0.0 ${z.toFixed(4)}\nH 0.0 -0.757 -0.469\nH 0.0 0.757 -0.469\n`;

@@ -5,16 +5,19 @@
  *  - `schema_name`: "qcschema_output" (or the older "qc_schema_output"); anything else is refused;
  *  - `success`: false is refused (a failed job's energy is not a result);
  *  - level: `model.method` and `model.basis`, canonicalised later like any typed level (a method written
- *    `B3LYP-D3(BJ)` is method B3LYP with dispersion D3(BJ));
+ *    `B3LYP-D3(BJ)` is method B3LYP with dispersion D3(BJ)); an empty or missing basis is accepted only
+ *    for a method that carries its own ("3c" composites such as r2SCAN-3c, semiempirical methods such as
+ *    GFN2-xTB or PM7), stored with the basis "built-in"; any other method without a basis is refused;
  *  - species: `molecule.symbols`, `molecule.geometry` (bohr, flat [x1,y1,z1,...] or nested [[x,y,z],...];
  *    converted to Å with the engine's CODATA Bohr radius), `molecule.molecular_charge` (default 0),
- *    `molecule.molecular_multiplicity` (default 1); label = `molecule.name` when present, else the
+ *    `molecule.molecular_multiplicity` (default 1); ghost atoms (`molecule.real` false, an array of
+ *    booleans parallel to the symbols) are left out of the formula and the stored geometry; label = `molecule.name` when present, else the
  *    formula in Hill order;
  *  - energy: `return_result` when `driver` is "energy", else `properties.return_energy` (hartree);
  *  - frequencies (Thermotally's documented place, the schema itself has none): `extras.frequencies_cm1`,
  *    an array of harmonic wavenumbers in cm⁻¹, imaginary modes negative.
  */
-import { BOHR_TO_ANGSTROM, hillFormula, normaliseSymbol, type Vec3 } from "../thermo";
+import { BOHR_TO_ANGSTROM, BUILT_IN_BASIS, hillFormula, methodCarriesBasis, normaliseSymbol, type Vec3 } from "../thermo";
 import { countsOfSymbols, xyzText } from "./geometry-text";
 import type { ImportProblem, ImportRow, ParsedImport } from "./types";
 
@@ -78,9 +81,13 @@ export function parseQcschema(text: string, fileName = "results.json"): ParsedIm
     if (value.success === false) bad("success", "The result says success: false; a failed calculation is not imported");
     const model = isObject(value.model) ? value.model : null;
     const method = typeof model?.method === "string" && model.method.trim() ? model.method.trim() : null;
-    const basis = typeof model?.basis === "string" && model.basis.trim() ? model.basis.trim() : null;
+    const givenBasis = typeof model?.basis === "string" && model.basis.trim() ? model.basis.trim() : null;
+    const basisBuiltIn = !givenBasis && !!method && methodCarriesBasis(method);
+    const basis = givenBasis ?? (basisBuiltIn ? BUILT_IN_BASIS : null);
     if (!method) bad("model.method", "Missing level: model.method is not given");
-    if (!basis) bad("model.basis", "Missing level: model.basis is not given");
+    else if (!basis) {
+      bad("model.basis", `Missing level: model.basis is not given, and ${method} needs a basis set (only "3c" composites such as r2SCAN-3c and semiempirical methods such as GFN2-xTB carry their own)`);
+    }
     const mol = isObject(value.molecule) ? value.molecule : null;
     if (!mol) {
       bad("molecule", "molecule is not given");
@@ -96,8 +103,20 @@ export function parseQcschema(text: string, fileName = "results.json"): ParsedIm
         else symbols.push(sym);
       });
     }
-    const coords = symbols.length ? readGeometry(mol.geometry, symbols.length) : [];
-    if (typeof coords === "string") bad("molecule.geometry", coords);
+    const allCoords = symbols.length ? readGeometry(mol.geometry, symbols.length) : [];
+    if (typeof allCoords === "string") bad("molecule.geometry", allCoords);
+    // Ghost atoms carry basis functions but no nucleus or electrons: not part of the species.
+    let real: boolean[] | null = null;
+    if (mol.real !== undefined && mol.real !== null) {
+      if (!Array.isArray(mol.real) || !mol.real.every((x) => typeof x === "boolean")) bad("molecule.real", "molecule.real must be an array of true/false, one per symbol");
+      else if (Array.isArray(symbolsRaw) && mol.real.length !== symbolsRaw.length) bad("molecule.real", `molecule.real has ${mol.real.length} entries for ${symbolsRaw.length} symbols`);
+      else if (!mol.real.some((x) => x)) bad("molecule.real", "Every atom is a ghost (molecule.real all false); nothing is left to import");
+      else real = mol.real as boolean[];
+    }
+    const ghosts = real ? real.filter((x) => !x).length : 0;
+    const keep = (_: unknown, i: number) => !real || real[i] === true;
+    const coords = typeof allCoords === "string" ? allCoords : allCoords.filter(keep);
+    symbols = symbols.filter(keep);
     const charge = mol.molecular_charge ?? 0;
     const multiplicity = mol.molecular_multiplicity ?? 1;
     if (typeof charge !== "number" || !Number.isInteger(charge)) bad("molecule.molecular_charge", "molecular_charge must be a whole number");
@@ -126,6 +145,10 @@ export function parseQcschema(text: string, fileName = "results.json"): ParsedIm
     const label = typeof mol.name === "string" && mol.name.trim() ? mol.name.trim() : formula;
     const provenance = isObject(value.provenance) ? value.provenance : {};
     const creator = typeof provenance.creator === "string" ? ` (${provenance.creator}${typeof provenance.version === "string" ? ` ${provenance.version}` : ""})` : "";
+    const notes = [
+      ghosts ? `${ghosts} ghost atom${ghosts === 1 ? "" : "s"} left out of formula and geometry` : "",
+      basisBuiltIn ? `no basis given: ${method} carries its own` : "",
+    ].filter(Boolean);
     rows.push({
       row,
       species: {
@@ -145,7 +168,7 @@ export function parseQcschema(text: string, fileName = "results.json"): ParsedIm
         frequencies,
         thermal: null,
         converged: true,
-        sourceNote: `QCSchema ${fileName} entry ${row}${creator}`,
+        sourceNote: `QCSchema ${fileName} entry ${row}${creator}${notes.length ? `; ${notes.join("; ")}` : ""}`,
       },
     });
   }

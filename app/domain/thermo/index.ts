@@ -12,7 +12,7 @@ export {
 export type { EnergyUnit, Quantity, TemperatureUnit, PressureUnit, HartreeInput, HartreeTerm, HartreeDecimal } from "./units";
 export {
   parseLevel, parseLevelString, parseCompositeLevel, canonicalLevelKey, canonicalCompositeKey, formatLevel,
-  formatCompositeLevel, classifyBasis, classifyMethod, canonicalBasisKey, canonicalDispersion, splitDispersion,
+  formatCompositeLevel, classifyBasis, classifyMethod, methodCarriesBasis, BUILT_IN_BASIS, canonicalBasisKey, canonicalDispersion, splitDispersion,
 } from "./level";
 export type { Level, LevelInput, CompositeLevel, Solvation, BasisClass, MethodClass } from "./level";
 export { ELEMENTS, element, elementByNumber, normaliseSymbol } from "./elements";

@@ -139,6 +139,23 @@ export function classifyMethod(method: string): MethodClass {
   return info.rung ? { kind: info.kind, rung: info.rung, name: info.name } : { kind: info.kind, name: info.name };
 }
 
+/**
+ * Methods whose basis is part of the method's definition, so that no separate basis set is named:
+ * Grimme's "3c" composites, each defined with one fixed basis (e.g. r2SCAN-3c with def2-mTZVPP, Grimme
+ * et al., J. Chem. Phys. 154, 064103 (2021); B97-3c with mTZVP, Brandenburg et al., J. Chem. Phys.
+ * 148, 064104 (2018)), and semiempirical methods, parametrised with their own minimal valence basis.
+ */
+const COMPOSITES_WITH_OWN_BASIS = new Set(["b973c", "r2scan3c", "pbeh3c", "hf3c", "wb97x3c"]);
+/** The basis text stored for a level whose method carries its own basis (see methodCarriesBasis). */
+export const BUILT_IN_BASIS = "built-in";
+
+/** True for a method that defines its own basis (a "3c" composite or a semiempirical method). */
+export function methodCarriesBasis(method: string): boolean {
+  if (typeof method !== "string" || method.trim() === "") return false;
+  if (COMPOSITES_WITH_OWN_BASIS.has(canonicalMethodKey(method))) return true;
+  return classifyMethod(method).kind === "semiempirical";
+}
+
 /** `B3LYP-D3(BJ)` → { method: "B3LYP", dispersion: "D3(BJ)" }; `ωB97X-D`, `B97-D` keep their own D. */
 export function splitDispersion(method: string): { method: string; dispersion: string | null } {
   const m = method.trim();

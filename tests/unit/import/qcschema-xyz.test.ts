@@ -65,6 +65,74 @@ describe("QCSchema results", () => {
     ]);
   });
 
+  test("ghost atoms (molecule.real false) are left out of the formula and the geometry, and the note says so", () => {
+    // A counterpoise-style entry: a water with the basis functions of a second water on ghost centres
+    // (QCSchema molecule: `real` is an array of booleans parallel to `symbols`).
+    const withGhosts = {
+      ...water,
+      molecule: {
+        ...water.molecule,
+        symbols: ["O", "H", "H", "O", "H", "H"],
+        geometry: [...water.molecule.geometry, 0, 0, 5.5, 0, -1.4941, 6.6568, 0, 1.4941, 6.6568],
+        real: [true, true, true, false, false, false],
+      },
+    };
+    const parsed = parseQcschema(JSON.stringify(withGhosts));
+    expect(parsed.problems).toEqual([]);
+    const r = parsed.rows[0]!;
+    // Hill order without carbon is alphabetical: H2O (Hill, J. Am. Chem. Soc. 22, 478 (1900)).
+    expect(r.species.formula).toBe("H2O");
+    const xyz = r.species.geometryXyz!.trim().split("\n");
+    expect(xyz[0]!.trim()).toBe("3");
+    expect(xyz.slice(2).map((l) => l.trim().split(/\s+/)[0])).toEqual(["O", "H", "H"]);
+    expect(Number(xyz[4]!.trim().split(/\s+/)[3])).toBeCloseTo(1.0274 * BOHR, 7);
+    expect(r.calculation!.sourceNote).toMatch(/3 ghost atoms left out/);
+
+    // A ghost in the middle keeps the atoms after it paired with their own coordinates.
+    const middle = { ...water, molecule: { ...water.molecule, symbols: ["O", "He", "H", "H"], geometry: [0, 0, -0.1294, 9, 9, 9, 0, -1.4941, 1.0274, 0, 1.4941, 1.0274], real: [true, false, true, true] } };
+    const m = parseQcschema(JSON.stringify(middle)).rows[0]!;
+    expect(m.species.formula).toBe("H2O");
+    expect(m.species.geometryXyz).toBe(r.species.geometryXyz);
+  });
+
+  test("molecule.real that is not one boolean per symbol, or leaves no real atom, is refused with the field named", () => {
+    const short = { ...water, molecule: { ...water.molecule, real: [true, false] } };
+    const words = { ...water, molecule: { ...water.molecule, real: ["yes", "no", "no"] } };
+    const none = { ...water, molecule: { ...water.molecule, real: [false, false, false] } };
+    const parsed = parseQcschema(JSON.stringify([short, words, none]));
+    expect(parsed.rows).toEqual([]);
+    expect(parsed.problems.map((p) => [p.row, p.column])).toEqual([
+      [1, "molecule.real"],
+      [2, "molecule.real"],
+      [3, "molecule.real"],
+    ]);
+  });
+
+  test("without a basis, a method that carries its own (3c composite, semiempirical) is accepted; a plain method is refused", () => {
+    const entry = (model: Record<string, unknown>) => ({ ...water, model });
+    const parsed = parseQcschema(
+      JSON.stringify([
+        entry({ method: "r2SCAN-3c", basis: "" }),
+        entry({ method: "B97-3c" }),
+        entry({ method: "GFN2-xTB", basis: null }),
+        entry({ method: "PM7", basis: "  " }),
+        entry({ method: "B3LYP", basis: "" }),
+        entry({ method: "CCSD(T)" }),
+      ]),
+    );
+    expect(parsed.rows.map((r) => r.level)).toEqual(
+      ["r2SCAN-3c", "B97-3c", "GFN2-xTB", "PM7"].map((method) => ({ method, basis: "built-in", dispersion: null, solvation: null })),
+    );
+    expect(parsed.rows[0]!.calculation!.sourceNote).toMatch(/no basis given: r2SCAN-3c carries its own/);
+    expect(parsed.problems.map((p) => [p.row, p.column])).toEqual([
+      [5, "model.basis"],
+      [6, "model.basis"],
+    ]);
+    expect(parsed.problems[0]!.message).toMatch(/B3LYP needs a basis set/);
+    // A basis given with a composite is kept as written.
+    expect(parseQcschema(JSON.stringify(entry({ method: "r2SCAN-3c", basis: "def2-mTZVPP" }))).rows[0]!.level).toMatchObject({ basis: "def2-mTZVPP" });
+  });
+
   test("format detection by extension and content", async () => {
     expect((await parseImportFile("run.json", new TextEncoder().encode(JSON.stringify(water))))?.format).toBe("qcschema");
     expect((await parseImportFile("noext", new TextEncoder().encode(JSON.stringify(water))))?.format).toBe("qcschema");

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import {
-  canonicalLevelKey, canonicalCompositeKey, classifyBasis, classifyMethod, formatLevel, parseCompositeLevel, parseLevel,
+  canonicalLevelKey, canonicalCompositeKey, classifyBasis, classifyMethod, formatLevel, methodCarriesBasis, parseCompositeLevel, parseLevel,
   parseLevelString, ThermoInputError,
 } from "../../../app/domain/thermo/index";
 
@@ -130,5 +130,25 @@ describe("method classification (functional ladder, common practice)", () => {
     expect(classifyMethod("PM7").kind).toBe("semiempirical");
     expect(classifyMethod("GFN2-xTB").kind).toBe("semiempirical");
     expect(classifyMethod("MyFunctional").kind).toBe("unknown");
+  });
+});
+
+describe("methods that carry their own basis", () => {
+  // The "3c" composites are each defined with one basis: HF-3c with MINIX (Sure & Grimme, J. Comput.
+  // Chem. 34, 1672 (2013)), PBEh-3c with def2-mSVP (Grimme et al., J. Chem. Phys. 143, 054107 (2015)),
+  // B97-3c with mTZVP (Brandenburg et al., J. Chem. Phys. 148, 064104 (2018)), r2SCAN-3c with
+  // def2-mTZVPP (Grimme et al., J. Chem. Phys. 154, 064103 (2021)), ωB97X-3c with vDZP (Müller et al.,
+  // J. Chem. Phys. 158, 014103 (2023)); semiempirical methods have a built-in minimal valence basis
+  // (common practice).
+  it.each(["HF-3c", "PBEh-3c", "B97-3c", "r2SCAN-3c", "R2SCAN-3C", "ωB97X-3c", "wB97X-3c", "GFN2-xTB", "GFN1-xTB", "PM7", "PM6-D3H4", "AM1"])("%s carries its own basis", (m) => {
+    expect(methodCarriesBasis(m)).toBe(true);
+  });
+  it.each(["B3LYP", "B3LYP-D3(BJ)", "r2SCAN", "B97-D3", "ωB97X-D", "HF", "CCSD(T)", "DLPNO-CCSD(T)", "MyFunctional", ""])("%s needs a basis set", (m) => {
+    expect(methodCarriesBasis(m)).toBe(false);
+  });
+  it("a level with the built-in basis reads back from its display form", () => {
+    const l = parseLevel({ method: "r2SCAN-3c", basis: "built-in" });
+    expect(formatLevel(l)).toBe("r2SCAN-3c/built-in");
+    expect(canonicalLevelKey(parseLevelString(formatLevel(l)))).toBe(canonicalLevelKey(l));
   });
 });
