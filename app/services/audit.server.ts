@@ -1,4 +1,4 @@
-import { classifyBasis, electronCount, isMultiplicityPossible } from "../domain/thermo";
+import { BUILT_IN_BASIS, classifyBasis, electronCount, isMultiplicityPossible } from "../domain/thermo";
 import { energyPlausibility } from "../domain/thermo/plausibility";
 import type { Project } from "../../db/models/foundation";
 import { energiesDisagree, type CellFlag } from "./calculations.server";
@@ -75,7 +75,8 @@ function calcRules(data: LedgerData, link: ReturnType<typeof links>): Finding[] 
         }
       }
       const level = data.levels.get(c.levelId);
-      if (sp.charge < 0 && c.electronicEnergyText && level) {
+      // A method with its own built-in basis is not judged by basis-set rules of thumb.
+      if (sp.charge < 0 && c.electronicEnergyText && level && level.basis !== BUILT_IN_BASIS) {
         try {
           if (classifyBasis(level.basis).diffuse === "none") {
             out.push({

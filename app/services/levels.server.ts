@@ -4,7 +4,7 @@ import { db } from "../../db";
 import type { Project } from "../../db/models/foundation";
 import type { Level } from "../../db/models/ledger";
 import {
-  canonicalLevelKey, classifyBasis, classifyMethod, formatLevel, parseLevel, parseLevelString, type Level as ParsedLevel,
+  canonicalLevelKey, classifyBasis, classifyMethod, formatLevel, methodCarriesBasis, parseLevel, parseLevelString, type Level as ParsedLevel,
 } from "../domain/thermo";
 import { ServiceError } from "../utils/http.server";
 import { recordChange, snapshotOf, type Principal } from "./history.server";
@@ -25,7 +25,7 @@ export const levelInputSchema = z
     dispersion: text(40).nullish(),
     solvation: z.object({ model: text(40).min(1, "Name the solvation model"), solvent: text(80).min(1, "Name the solvent") }).nullish(),
   })
-  .refine((v) => !!v.text || (!!v.method && !!v.basis), {
+  .refine((v) => !!v.text || (!!v.method && (!!v.basis || methodCarriesBasis(v.method))), {
     message: "Give the method and the basis set (or the whole level as text, e.g. B3LYP-D3(BJ)/def2-SVP)",
     path: ["method"],
   });
@@ -38,7 +38,7 @@ export function parseLevelInput(input: LevelInput): { parsed: ParsedLevel; key: 
   const parsed = data.text && !data.method
     ? fromThermo("text", () => parseLevelString(data.text!))
     : fromThermo("level", () =>
-        parseLevel({ method: data.method!, basis: data.basis!, dispersion: data.dispersion ?? null, solvation: data.solvation ?? null }),
+        parseLevel({ method: data.method!, basis: data.basis ?? "", dispersion: data.dispersion ?? null, solvation: data.solvation ?? null }),
       );
   return { parsed, key: canonicalLevelKey(parsed) };
 }

@@ -284,7 +284,12 @@ function canonicalSolvation(s: Solvation | null | undefined): Solvation | null {
 export function parseLevel(input: LevelInput): Level {
   if (typeof input !== "object" || input === null) throw new ThermoInputError("level", "level must be an object {method, basis}.");
   if (typeof input.method !== "string" || input.method.trim() === "") throw new ThermoInputError("method", "method must be non-empty text, e.g. \"B3LYP\".");
-  if (typeof input.basis !== "string" || input.basis.trim() === "") throw new ThermoInputError("basis", "basis must be non-empty text, e.g. \"def2-TZVP\".");
+  const noBasis = input.basis === undefined || input.basis === null || (typeof input.basis === "string" && input.basis.trim() === "");
+  // A composite "3c" or semiempirical method brings its own basis: stored as the built-in marker.
+  if (noBasis && methodCarriesBasis(input.method)) return parseLevel({ ...input, basis: BUILT_IN_BASIS });
+  if (typeof input.basis !== "string" || input.basis.trim() === "") {
+    throw new ThermoInputError("basis", `${input.method.trim()} needs a basis set, e.g. "def2-TZVP" (only "3c" composites and semiempirical methods carry their own).`);
+  }
   const split = splitDispersion(input.method);
   const explicit = canonicalDispersion(input.dispersion);
   if (split.dispersion && explicit && split.dispersion !== explicit) {
@@ -318,6 +323,7 @@ export function parseLevelString(text: string): Level {
     m = null;
   }
   const slash = rest.indexOf("/");
+  if (slash < 0 && methodCarriesBasis(rest)) return parseLevel({ method: rest, basis: BUILT_IN_BASIS, solvation });
   if (slash <= 0 || slash === rest.length - 1) {
     throw new ThermoInputError("level", `Cannot read ${JSON.stringify(text)} as method/basis, e.g. "B3LYP-D3(BJ)/def2-TZVP SMD(water)".`);
   }

@@ -146,6 +146,16 @@ describe("methods that carry their own basis", () => {
   it.each(["B3LYP", "B3LYP-D3(BJ)", "r2SCAN", "B97-D3", "ωB97X-D", "HF", "CCSD(T)", "DLPNO-CCSD(T)", "MyFunctional", ""])("%s needs a basis set", (m) => {
     expect(methodCarriesBasis(m)).toBe(false);
   });
+  it("typed without a basis, such a method lands on the same level as the built-in marker", () => {
+    const built = canonicalLevelKey(parseLevel({ method: "r2SCAN-3c", basis: "built-in" }));
+    expect(canonicalLevelKey(parseLevel({ method: "r2SCAN-3c", basis: "" }))).toBe(built);
+    expect(canonicalLevelKey(parseLevelString("r2SCAN-3c"))).toBe(built);
+    expect(canonicalLevelKey(parseLevelString("GFN2-xTB ALPB(water)"))).not.toBe(canonicalLevelKey(parseLevelString("GFN2-xTB")));
+  });
+  it("a plain method without a basis is refused, naming the basis", () => {
+    expect(() => parseLevel({ method: "B3LYP", basis: "" })).toThrow(/B3LYP needs a basis set/);
+    expect(() => parseLevelString("B3LYP")).toThrow(/method\/basis/);
+  });
   it("a level with the built-in basis reads back from its display form", () => {
     const l = parseLevel({ method: "r2SCAN-3c", basis: "built-in" });
     expect(formatLevel(l)).toBe("r2SCAN-3c/built-in");
