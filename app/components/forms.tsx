@@ -1,3 +1,4 @@
+import { Form } from "react-router";
 import type { InputHTMLAttributes, ReactNode, SelectHTMLAttributes } from "react";
 
 /** A labelled input with its server-side error beside it. */
@@ -66,4 +67,35 @@ export function FormError({ error }: { error?: string }) {
 
 export function Notice({ children }: { children: ReactNode }) {
   return <p className="rounded-md border border-ok/40 bg-green-50 px-3 py-2 text-sm text-ok">{children}</p>;
+}
+
+/**
+ * A one-button form that asks before it posts (delete, remove): the hidden fields say what to act on,
+ * including the version the page showed, so a stale view is refused by the server.
+ */
+export function ConfirmForm({
+  question,
+  fields,
+  label,
+  className,
+  buttonClassName = "text-xs text-bad hover:underline",
+  disabled,
+}: {
+  question: string;
+  fields: Record<string, string | number>;
+  label: string;
+  className?: string;
+  buttonClassName?: string;
+  disabled?: boolean;
+}) {
+  return (
+    <Form method="post" className={className} onSubmit={(e) => { if (!confirm(question)) e.preventDefault(); }}>
+      {Object.entries(fields).map(([name, value]) => (
+        <input key={name} type="hidden" name={name} value={value} />
+      ))}
+      <button type="submit" className={buttonClassName} disabled={disabled}>
+        {label}
+      </button>
+    </Form>
+  );
 }

@@ -1,7 +1,7 @@
 import { data, Form, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/project-levels";
-import { Field, FormError, Notice } from "~/components/forms";
+import { ConfirmForm, Field, FormError, Notice } from "~/components/forms";
 import { useProject } from "~/components/use-project";
 import { createLevel, deleteLevel, listLevels, type LevelView } from "~/services/levels.server";
 import { expectedVersionOf } from "~/services/versioned.server";
@@ -85,14 +85,7 @@ export default function LevelsPage({ loaderData, actionData }: Route.ComponentPr
                   <td className="text-xs">{basisWords(l.classification.basis)}</td>
                   {can.edit ? (
                     <td className="text-right">
-                      <Form method="post" onSubmit={(e) => { if (!confirm(`Delete level ${l.name}?`)) e.preventDefault(); }}>
-                        <input type="hidden" name="intent" value="delete" />
-                        <input type="hidden" name="levelId" value={l.id} />
-                        <input type="hidden" name="version" value={l.version} />
-                        <button type="submit" className="text-xs text-bad hover:underline" disabled={busy}>
-                          Delete
-                        </button>
-                      </Form>
+                      <ConfirmForm question={`Delete level ${l.name}?`} fields={{ intent: "delete", levelId: l.id, version: l.version }} label="Delete" disabled={busy} />
                     </td>
                   ) : null}
                 </tr>

@@ -1,7 +1,7 @@
 import { data, Form, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/project-members";
-import { Field, FormError, SelectField } from "~/components/forms";
+import { ConfirmForm, Field, FormError, SelectField } from "~/components/forms";
 import { TeamSections } from "~/components/team-sections";
 import { useProject } from "~/components/use-project";
 import { addMember, changeMemberRole, listMembers, removeMember } from "~/services/projects.server";
@@ -90,13 +90,7 @@ export default function Members({ loaderData, actionData }: Route.ComponentProps
                 </td>
                 {can.manage ? (
                   <td className="text-right">
-                    <Form method="post" onSubmit={(e) => { if (!confirm(`Remove ${m.email} from the project?`)) e.preventDefault(); }}>
-                      <input type="hidden" name="intent" value="remove" />
-                      <input type="hidden" name="membershipId" value={m.id} />
-                      <button className="btn-danger" type="submit" disabled={busy}>
-                        Remove
-                      </button>
-                    </Form>
+                    <ConfirmForm question={`Remove ${m.email} from the project?`} fields={{ intent: "remove", membershipId: m.id }} label="Remove" buttonClassName="btn-danger" disabled={busy} />
                   </td>
                 ) : null}
               </tr>

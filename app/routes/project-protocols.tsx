@@ -1,7 +1,7 @@
 import { data, Form, Link, useNavigation, useSearchParams } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/project-protocols";
-import { Field, FormError, Notice, SelectField } from "~/components/forms";
+import { ConfirmForm, Field, FormError, Notice, SelectField } from "~/components/forms";
 import { useProject } from "~/components/use-project";
 import { listLevels } from "~/services/levels.server";
 import { createProtocol, deleteProtocol, listProtocols, protocolSettingsLine, setDefaultProtocol, updateProtocol, type ProtocolView } from "~/services/protocols.server";
@@ -150,14 +150,7 @@ export default function ProtocolsPage({ loaderData, actionData }: Route.Componen
                           </button>
                         </Form>
                       ) : null}
-                      <Form method="post" onSubmit={(e) => { if (!confirm(`Delete protocol ${p.name}?`)) e.preventDefault(); }}>
-                        <input type="hidden" name="intent" value="delete" />
-                        <input type="hidden" name="protocolId" value={p.id} />
-                        <input type="hidden" name="version" value={p.version} />
-                        <button type="submit" className="text-bad hover:underline" disabled={busy}>
-                          Delete
-                        </button>
-                      </Form>
+                      <ConfirmForm question={`Delete protocol ${p.name}?`} fields={{ intent: "delete", protocolId: p.id, version: p.version }} label="Delete" buttonClassName="text-bad hover:underline" disabled={busy} />
                     </span>
                   ) : null}
                 </div>

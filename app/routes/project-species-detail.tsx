@@ -1,7 +1,7 @@
 import { data, Form, Link, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/project-species-detail";
-import { Field, FormError } from "~/components/forms";
+import { ConfirmForm, Field, FormError } from "~/components/forms";
 import { formatCharge, formatKind, formatMultiplicity } from "~/components/grids/format";
 import { useProject } from "~/components/use-project";
 import { listCalculationsWithAuthors } from "~/services/calculations.server";
@@ -179,14 +179,7 @@ export default function SpeciesDetail({ loaderData, actionData }: Route.Componen
                 <span className="font-medium">{c.label}</span>
                 <span className="text-xs text-muted">{c.geometry ? "geometry stored" : "no geometry"}</span>
                 {can.edit ? (
-                  <Form method="post" className="ml-auto" onSubmit={(e) => { if (!confirm(`Delete conformer ${c.label} and its calculations?`)) e.preventDefault(); }}>
-                    <input type="hidden" name="intent" value="delete-conformer" />
-                    <input type="hidden" name="conformerId" value={c.id} />
-                    <input type="hidden" name="version" value={c.version} />
-                    <button className="text-xs text-bad hover:underline" type="submit" disabled={busy}>
-                      Delete
-                    </button>
-                  </Form>
+                  <ConfirmForm className="ml-auto" question={`Delete conformer ${c.label} and its calculations?`} fields={{ intent: "delete-conformer", conformerId: c.id, version: c.version }} label="Delete" disabled={busy} />
                 ) : null}
               </summary>
               {c.geometry ? <pre className="mt-2 max-h-60 overflow-auto text-xs">{c.geometry.data}</pre> : null}
