@@ -1,12 +1,14 @@
 import { data, Form, Link, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/project-species-detail";
-import { ConfirmForm, Field, FormError } from "~/components/forms";
+import { ConfirmForm, Field, FormError, Notice, SelectField } from "~/components/forms";
 import { formatCharge, formatKind, formatMultiplicity } from "~/components/grids/format";
 import { useProject } from "~/components/use-project";
-import { listCalculationsWithAuthors } from "~/services/calculations.server";
+import { createCalculation, listCalculationsWithAuthors } from "~/services/calculations.server";
+import { listLevels } from "~/services/levels.server";
 import { createConformer, deleteConformer, getSpecies } from "~/services/species.server";
 import { principalOf, requireProject } from "~/utils/guards.server";
+import { formFailure } from "~/utils/form-errors.server";
 import { parseForm, parseParams, positiveIntId, ServiceError, serviceErrorToFields } from "~/utils/http.server";
 
 const paramsSchema = z.object({ projectId: positiveIntId, speciesId: positiveIntId });
@@ -15,6 +17,24 @@ const actionSchema = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("delete-conformer"), conformerId: positiveIntId, version: positiveIntId.optional() }),
 ]);
 
+/** The add-a-calculation form's fields; the service checks the values and names the field at fault. */
+const THERMAL_FIELDS = ["thermalTemperature", "zpe", "enthalpyCorrection", "gibbsCorrection"] as const;
+
+function calculationFromForm(speciesId: number, f: Record<string, string>) {
+  const thermalGiven = THERMAL_FIELDS.some((k) => f[k]?.trim());
+  return {
+    species: speciesId,
+    level: f.level ?? "",
+    conformer: f.conformer || null,
+    electronicEnergy: f.electronicEnergy ?? "",
+    frequencies: f.frequencies ?? "",
+    // Stored corrections come as a set: any one given sends all four, so a missing one is named.
+    thermal: thermalGiven ? { temperature: f.thermalTemperature ?? "", zpe: f.zpe ?? "", enthalpyCorrection: f.enthalpyCorrection ?? "", gibbsCorrection: f.gibbsCorrection ?? "" } : undefined,
+    converged: f.converged,
+    source: f.source ?? "",
+  };
+}
+
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { projectId, speciesId } = parseParams(params, paramsSchema);
   const { project } = await requireProject(request, projectId, "read");
@@ -22,13 +42,24 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     if (error instanceof ServiceError) throw data({ error: { message: "No such species in this project" } }, { status: 404 });
     throw error;
   });
-  return { species, calculations: await listCalculationsWithAuthors(project.id, { species: String(species.id) }) };
+  const [calculations, levels] = await Promise.all([listCalculationsWithAuthors(project.id, { species: String(species.id) }), listLevels(project.id)]);
+  return { species, calculations, levels: levels.map((l) => ({ id: l.id, name: l.name })) };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { projectId, speciesId } = parseParams(params, paramsSchema);
   const { project, user } = await requireProject(request, projectId, "edit");
-  const parsed = parseForm(await request.formData(), actionSchema);
+  const formData = await request.formData();
+  if (formData.get("intent") === "add-calculation") {
+    try {
+      const c = await createCalculation(project, principalOf(user), calculationFromForm(speciesId, Object.fromEntries(formData) as Record<string, string>));
+      return { errors: {} as Record<string, string>, scope: "calculation", notice: `Added calculation #${c.id} at ${c.level.name}` };
+    } catch (error) {
+      const { status, errors } = formFailure(error);
+      return data({ errors, scope: "calculation", notice: null }, { status });
+    }
+  }
+  const parsed = parseForm(formData, actionSchema);
   if (!parsed.ok) return data({ errors: parsed.errors }, { status: 422 });
   try {
     if (parsed.data.intent === "add-conformer") await createConformer(project, principalOf(user), speciesId, { label: parsed.data.label, geometry: parsed.data.geometry });
@@ -81,7 +112,10 @@ function Frequencies({ list }: { list: number[] }) {
 export default function SpeciesDetail({ loaderData, actionData }: Route.ComponentProps) {
   const { project, can } = useProject();
   const { species, calculations } = loaderData;
-  const errors: Record<string, string> = actionData?.errors ?? {};
+  const forCalculation = !!actionData && "scope" in actionData && actionData.scope === "calculation";
+  const errors: Record<string, string> = !forCalculation ? (actionData?.errors ?? {}) : {};
+  const calcErrors: Record<string, string> = forCalculation ? (actionData?.errors ?? {}) : {};
+  const calcNotice = forCalculation && "notice" in actionData ? actionData.notice : null;
   const busy = useNavigation().state !== "idle";
   const base = `/projects/${project.id}`;
   return (
@@ -156,6 +190,7 @@ export default function SpeciesDetail({ loaderData, actionData }: Route.Componen
           </table>
         )}
         <p className="mt-2 text-xs text-muted">Energies are shown here with every stored digit.</p>
+        {can.edit ? <AddCalculation levels={loaderData.levels} conformers={species.conformers} errors={calcErrors} notice={calcNotice ?? null} busy={busy} /> : null}
       </section>
 
       <div className="grid gap-4 lg:grid-cols-2">
@@ -204,5 +239,50 @@ export default function SpeciesDetail({ loaderData, actionData }: Route.Componen
         </section>
       </div>
     </div>
+  );
+}
+
+/** The first message among fields named `prefix` or `prefix.<n>` (e.g. frequencies.3). */
+const errorAt = (errors: Record<string, string>, prefix: string) => Object.entries(errors).find(([k]) => k === prefix || k.startsWith(`${prefix}.`))?.[1];
+
+/**
+ * A calculation typed in by hand: an electronic energy, harmonic frequencies and/or stored thermal
+ * corrections at one level (the calculations grid takes electronic energies only).
+ */
+function AddCalculation({ levels, conformers, errors, notice, busy }: { levels: { id: number; name: string }[]; conformers: { id: number; label: string }[]; errors: Record<string, string>; notice: string | null; busy: boolean }) {
+  if (levels.length === 0) return <p className="mt-3 text-xs text-muted">Add a level of theory first to store a calculation here.</p>;
+  return (
+    // Keyed on the notice: a stored calculation empties the form, a refused one keeps what was typed.
+    <Form key={notice ?? "form"} method="post" className="mt-4 grid gap-3 border-t border-rule pt-3 md:grid-cols-4" noValidate data-testid="add-calculation">
+      <h3 className="font-bold md:col-span-4">Add a calculation</h3>
+      <input type="hidden" name="intent" value="add-calculation" />
+      <div className="md:col-span-4">
+        {notice ? <Notice>{notice}</Notice> : null}
+        <FormError error={errors.form ?? errors.species} />
+      </div>
+      <SelectField label="Level" name="level" options={levels.map((l) => ({ value: String(l.id), label: l.name }))} error={errors.level} />
+      <SelectField label="Conformer" name="conformer" options={[{ value: "", label: "the species itself" }, ...conformers.map((c) => ({ value: String(c.id), label: c.label }))]} error={errors.conformer} />
+      <Field label="Electronic energy (hartree)" name="electronicEnergy" inputMode="decimal" error={errors.electronicEnergy} hint="Optional when frequencies or corrections are given" />
+      <SelectField label="Converged" name="converged" options={[{ value: "yes", label: "yes" }, { value: "no", label: "no" }]} error={errors.converged} />
+      <div className="md:col-span-4">
+        <label htmlFor="calculation-frequencies" className="label">
+          Harmonic frequencies (cm⁻¹; imaginary modes negative; separated by spaces, commas or new lines)
+        </label>
+        <textarea id="calculation-frequencies" name="frequencies" rows={3} className="input font-mono text-xs" aria-invalid={errorAt(errors, "frequencies") ? true : undefined} />
+        {errorAt(errors, "frequencies") ? <p className="field-error" role="alert">{errorAt(errors, "frequencies")}</p> : null}
+      </div>
+      <Field label="Thermal corrections at (K)" name="thermalTemperature" inputMode="decimal" error={errors["thermal.temperature"] ?? errors.thermal} hint="Stored corrections: all four or none" />
+      <Field label="ZPE (hartree)" name="zpe" inputMode="decimal" error={errors["thermal.zpe"]} />
+      <Field label="Enthalpy correction (hartree)" name="enthalpyCorrection" inputMode="decimal" error={errors["thermal.enthalpyCorrection"]} hint="Includes the ZPE" />
+      <Field label="Gibbs correction (hartree)" name="gibbsCorrection" inputMode="decimal" error={errors["thermal.gibbsCorrection"]} hint="Includes the ZPE" />
+      <div className="md:col-span-3">
+        <Field label="Source note" name="source" error={errors.source} hint="Where the numbers come from (file, job, notebook page)" />
+      </div>
+      <div className="md:col-span-4">
+        <button type="submit" className="btn-primary" disabled={busy}>
+          Add calculation
+        </button>
+      </div>
+    </Form>
   );
 }

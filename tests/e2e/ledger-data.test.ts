@@ -95,6 +95,39 @@ describe("ledger grids in the browser", () => {
     await screenshot(page, "ledger-calculations-flags");
   });
 
+  test("the chemist types frequencies and stored thermal corrections on a species page; a bad value is refused with its field named", async () => {
+    const page = chemist.page;
+    const nh3 = (await api(`/api/v1/projects/${project.id}/species/NH3`, { token: project.token })).body.species;
+    await open(page, `/projects/${project.id}/species/${nh3.id}`);
+    const form = page.getByTestId("add-calculation");
+    await form.locator('select[name="level"]').selectOption(String(levels[0]));
+    // Invented numbers in the range of a small molecule's modes and corrections.
+    await form.locator("#calculation-frequencies").fill("1021.5 1650.2, 1650.9\n3410.7 3530.1 3531.0");
+    await form.locator('input[name="thermalTemperature"]').fill("298.15");
+    await form.locator('input[name="zpe"]').fill("abc");
+    await form.locator('input[name="enthalpyCorrection"]').fill("0.037891");
+    await form.locator('input[name="gibbsCorrection"]').fill("0.016012");
+    await form.getByRole("button", { name: "Add calculation" }).click();
+    await form.locator("#field-zpe-error").waitFor();
+    await expect(form.locator("#field-zpe-error").innerText()).resolves.toContain("thermal.zpe must be a decimal number in hartree");
+    const before = await api(`/api/v1/projects/${project.id}/calculations?species=NH3&level=${levels[0]}`, { token: project.token });
+    expect(before.body.calculations.filter((c: { frequencies: unknown }) => c.frequencies)).toEqual([]);
+
+    // What was typed stays in the form; correct the one field and send again.
+    await form.locator('input[name="zpe"]').fill("0.034112");
+    await form.getByRole("button", { name: "Add calculation" }).click();
+    await page.getByText(/Added calculation #\d+ at B3LYP-D3\(BJ\)\/def2-SVP/).waitFor();
+    const table = page.getByTestId("species-calculations");
+    await expect(table.innerText()).resolves.toContain("at 298.15 K: ZPE 0.034112, H 0.037891, G 0.016012");
+    await expect(table.getByTestId("frequencies").last().innerText()).resolves.toContain("3531.0");
+    const after = await api(`/api/v1/projects/${project.id}/calculations?species=NH3&level=${levels[0]}`, { token: project.token });
+    const stored = after.body.calculations.find((c: { frequencies: unknown }) => c.frequencies);
+    expect(stored.frequencies).toEqual([1021.5, 1650.2, 1650.9, 3410.7, 3530.1, 3531.0]);
+    expect(stored.thermal).toEqual({ temperature: 298.15, zpe: "0.034112", enthalpyCorrection: "0.037891", gibbsCorrection: "0.016012" });
+    expect(stored.converged).toBe(true);
+    await screenshot(page, "ledger-species-add-calculation");
+  });
+
   test("the viewer sees the grids without any edit control", async () => {
     const viewer = await launchBrowser();
     try {
@@ -106,6 +139,10 @@ describe("ledger grids in the browser", () => {
       await cell.dblclick();
       await expect(page.locator(".ag-cell-inline-editing").count()).resolves.toBe(0);
       await expect(page.getByTestId("add-species").count()).resolves.toBe(0);
+      const h2o = (await api(`/api/v1/projects/${project.id}/species/H2O`, { token: project.token })).body.species;
+      await open(page, `/projects/${project.id}/species/${h2o.id}`);
+      await page.getByTestId("species-label").waitFor();
+      await expect(page.getByTestId("add-calculation").count()).resolves.toBe(0);
       await expect(page.locator(".ag-cell[col-id='delete']").count()).resolves.toBe(0);
       await open(page, `/projects/${project.id}/calculations`);
       await page.locator(`.ag-row[row-index='0'] .ag-cell[col-id='level-${levels[0]}']`).dblclick();
