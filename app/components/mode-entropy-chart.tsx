@@ -1,3 +1,4 @@
+import { niceStep, tickDecimals } from "./chart-scale";
 /**
  * Vibrational entropy per mode under the three treatments, against the mode's frequency on a log scale:
  * where the harmonic entropy of soft modes runs away, the quasi-RRHO value bends to the free rotor and the
@@ -41,7 +42,7 @@ export function ModeEntropyChart({
   const x = (f: number) => pad.left + ((Math.log10(f) - lo) / (hi - lo || 1)) * (width - pad.left - pad.right);
   const y = (s: number) => height - pad.bottom - (s / maxS) * (height - pad.top - pad.bottom);
   const ticks = [3, 10, 30, 100, 300, 1000, 3000].filter((t) => Math.log10(t) >= lo && Math.log10(t) <= hi);
-  const decimals = Math.max(0, -Math.floor(Math.log10(yTicks[1]! - yTicks[0]!)));
+  const decimals = tickDecimals(yTicks[1]! - yTicks[0]!);
   return (
     <figure>
       <svg viewBox={`0 0 ${width} ${height}`} className="h-auto w-full" role="img" aria-label="Entropy per mode">
@@ -96,9 +97,7 @@ export function ModeEntropyChart({
 /** 0 and four or five round steps (1, 2 or 5 × 10ⁿ) that cover `max`. */
 function niceTicks(max: number): number[] {
   if (!(max > 0)) return [0, 1];
-  const raw = max / 4;
-  const mag = 10 ** Math.floor(Math.log10(raw));
-  const step = [1, 2, 5, 10].map((m) => m * mag).find((s) => s >= raw)!;
+  const step = niceStep(max / 4);
   const n = Math.ceil(max / step - 1e-9);
   return Array.from({ length: n + 1 }, (_, i) => i * step);
 }

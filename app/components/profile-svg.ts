@@ -7,6 +7,8 @@
  * level carries its value above and its label below. A second series (another protocol) is drawn in
  * steel with hollow levels and its values below the first's, for comparison.
  */
+import { niceStep, tickDecimals } from "./chart-scale";
+
 export type ProfileState = { label: string; kind: "minimum" | "transition-state"; value: number | null };
 export type ProfileSeries = { name: string; states: ProfileState[] };
 export type ProfileOptions = {
@@ -39,9 +41,7 @@ export function niceTicks(min: number, max: number, count = 6): number[] {
     min -= 1;
     max += 1;
   }
-  const raw = (max - min) / Math.max(count, 1);
-  const mag = Math.pow(10, Math.floor(Math.log10(raw)));
-  const step = [1, 2, 5, 10].map((m) => m * mag).find((s) => s >= raw) ?? 10 * mag;
+  const step = niceStep((max - min) / Math.max(count, 1));
   const out: number[] = [];
   for (let v = Math.ceil(min / step) * step; v <= max + step * 1e-9; v += step) out.push(Math.abs(v) < step * 1e-9 ? 0 : +v.toPrecision(12));
   return out;
@@ -99,7 +99,7 @@ export function renderProfileSvg(states: ProfileState[], options: ProfileOptions
   for (const t of ticks) {
     if (t < yMin || t > yMax) continue;
     parts.push(`<line x1="${margin.left}" y1="${f(y(t))}" x2="${width - margin.right}" y2="${f(y(t))}" stroke="${RULE}" stroke-width="${t === 0 ? 1.2 : 0.6}"${t === 0 ? "" : ' stroke-dasharray="2 3"'}/>`);
-    parts.push(`<text x="${margin.left - 8}" y="${f(y(t) + 4)}" text-anchor="end" fill="${MUTED}">${formatProfileValue(t, Math.max(0, -Math.floor(Math.log10(Math.abs(ticks[1]! - ticks[0]!) || 1))))}</text>`);
+    parts.push(`<text x="${margin.left - 8}" y="${f(y(t) + 4)}" text-anchor="end" fill="${MUTED}">${formatProfileValue(t, tickDecimals(ticks[1]! - ticks[0]!))}</text>`);
   }
   parts.push(`<line x1="${margin.left}" y1="${margin.top}" x2="${margin.left}" y2="${margin.top + plotH}" stroke="${INK}" stroke-width="1"/>`);
   const axisLabel = `${quantity} / ${options.unit === "cm-1" ? "cm⁻¹" : options.unit}`;

@@ -1,5 +1,6 @@
 import { describe, expect, test } from "vitest";
 import { escapeXml, formatProfileValue, niceTicks, profileStatesOf, renderProfileSvg } from "~/components/profile-svg";
+import { niceStep, tickDecimals } from "~/components/chart-scale";
 
 const states = [
   { label: "A + B", kind: "minimum" as const, value: 0 },
@@ -57,5 +58,24 @@ describe("energy-profile SVG", () => {
     expect(niceTicks(0, 1, 5)).toEqual([0, 0.2, 0.4, 0.6, 0.8, 1]);
     expect(formatProfileValue(-0.04, 1)).toBe("0.0");
     expect(formatProfileValue(-3.25, 1)).toBe("−3.3");
+  });
+});
+
+describe("chart scale", () => {
+  // Round steps of 1, 2 or 5 × 10ⁿ (common practice for axis ticks).
+  test.each([
+    [0.3, 0.5],
+    [3.7, 5],
+    [12, 20],
+    [0.011, 0.02],
+  ])("the step at or above %s is %s", (raw, step) => {
+    expect(niceStep(raw)).toBeCloseTo(step, 12);
+  });
+  test.each([
+    [0.05, 2],
+    [0.5, 1],
+    [20, 0],
+  ])("a step of %s shows %s decimals", (step, decimals) => {
+    expect(tickDecimals(step)).toBe(decimals);
   });
 });
