@@ -1,11 +1,11 @@
 // The units module alone: the engine index would pull the SMILES parser into the browser bundle.
 import { convertEnergy, hartree, type EnergyUnit } from "~/domain/thermo/units";
+import { formatEnergyValue } from "./number-format";
 
 /** Energies shown to people: rounded for reading; stored and exported values keep every digit. */
 export const DISPLAY_ENERGY_UNITS = ["kcal/mol", "kJ/mol", "eV", "cm-1", "hartree"] as const satisfies readonly EnergyUnit[];
 export type DisplayEnergyUnit = (typeof DISPLAY_ENERGY_UNITS)[number];
 
-const DECIMALS: Record<DisplayEnergyUnit, number> = { "kcal/mol": 2, "kJ/mol": 2, eV: 3, "cm-1": 1, hartree: 6 };
 
 export const UNIT_LABEL: Record<DisplayEnergyUnit, string> = {
   "kcal/mol": "kcal/mol",
@@ -18,8 +18,7 @@ export const UNIT_LABEL: Record<DisplayEnergyUnit, string> = {
 /** A hartree value in the chosen unit, rounded for reading. */
 export function formatEnergy(valueHartree: number | null | undefined, unit: DisplayEnergyUnit): string {
   if (valueHartree === null || valueHartree === undefined || !Number.isFinite(valueHartree)) return "—";
-  const v = convertEnergy(hartree(valueHartree), unit).value;
-  return v.toFixed(DECIMALS[unit]).replace(/^-/, "−");
+  return formatEnergyValue(convertEnergy(hartree(valueHartree), unit).value, unit);
 }
 
 export function EnergyUnitSelect({ value, onChange, units = DISPLAY_ENERGY_UNITS }: { value: DisplayEnergyUnit; onChange: (u: DisplayEnergyUnit) => void; units?: readonly DisplayEnergyUnit[] }) {

@@ -8,6 +8,7 @@
  * steel with hollow levels and its values below the first's, for comparison.
  */
 import { niceStep, tickDecimals } from "./chart-scale";
+import { formatSigned } from "./number-format";
 
 export type ProfileState = { label: string; kind: "minimum" | "transition-state"; value: number | null };
 export type ProfileSeries = { name: string; states: ProfileState[] };
@@ -48,10 +49,7 @@ export function niceTicks(min: number, max: number, count = 6): number[] {
 }
 
 /** A value for a label: fixed decimals, a real minus sign. */
-export function formatProfileValue(value: number, decimals: number): string {
-  const t = value.toFixed(decimals);
-  return (/^-0(\.0+)?$/.test(t) ? t.slice(1) : t).replace(/^-/, "−");
-}
+export const formatProfileValue = formatSigned;
 
 export function renderProfileSvg(states: ProfileState[], options: ProfileOptions): string {
   const width = options.width ?? 880;

@@ -178,7 +178,7 @@ export default function ThermoCalculator({ actionData }: Route.ComponentProps) {
               </p>
               {result.imaginaryFrequencies.length ? (
                 <p className="mt-2 text-sm text-warn" data-testid="imaginary">
-                  Left out as imaginary: {result.imaginaryFrequencies.map((f) => `${formatSigned(f)} cm⁻¹`).join(", ")}
+                  Left out as imaginary: {result.imaginaryFrequencies.map((f) => `${withMinusSign(f)} cm⁻¹`).join(", ")}
                 </p>
               ) : null}
               {result.warnings.map((w) => (
@@ -235,4 +235,5 @@ const CONTRIBUTIONS = [
   ["electronic", "Electronic"],
 ] as const;
 
-const formatSigned = (v: number) => String(v).replace(/^-/, "−");
+// The frequency as entered, unrounded, with a real minus sign.
+const withMinusSign = (v: number) => String(v).replace(/^-/, "−");

@@ -1,5 +1,8 @@
 import type { ColDef, ValueFormatterParams } from "ag-grid-community";
+import { formatEnergyValue } from "../number-format";
 import { StatusCell } from "../reaction-status";
+
+export { formatEnergyValue };
 
 /** A row of GET /api/v1/projects/:id/reactions (values already in the answer's unit). */
 export type ReactionStatus = "ok" | "incomplete" | "inconsistent" | "unbalanced" | "invalid";
@@ -15,15 +18,6 @@ export type LedgerRow = {
 };
 
 /** Decimals shown per unit (PRODUCT.md §9: two in kcal/mol and kJ/mol); stored and exported values keep every digit. */
-export const DISPLAY_DECIMALS: Record<string, number> = { "kcal/mol": 2, "kJ/mol": 2, eV: 3, "cm-1": 0, hartree: 6 };
-
-/** An energy already in `unit`, rounded for reading, with a real minus sign; "—" when not computed. */
-export function formatEnergyValue(value: number | null | undefined, unit: string): string {
-  if (value === null || value === undefined || !Number.isFinite(value)) return "—";
-  const t = value.toFixed(DISPLAY_DECIMALS[unit] ?? 2);
-  return (/^-0(\.0+)?$/.test(t) ? t.slice(1) : t).replace(/^-/, "−");
-}
-
 /** A rate or equilibrium constant in scientific notation, e.g. "3.21 × 10⁴"; "—" when not computed. */
 export function formatScientific(value: number | null | undefined, digits = 3): string {
   if (value === null || value === undefined || Number.isNaN(value)) return "—";
